@@ -1,6 +1,6 @@
 package element
 
-import "sort"
+import "strings"
 
 // Hazard is a set of bench hazard classes an element carries.
 type Hazard uint8
@@ -31,7 +31,9 @@ type Element struct {
 	// MetallicRadiusCN12 is the metallic radius for 12-fold coordination, in Å.
 	MetallicRadiusCN12 float64
 	// ValenceElectrons counts s+d (groups 1-12) or s+p (groups 13-18)
-	// electrons outside the noble-gas core, as used for VEC.
+	// electrons outside the noble-gas core, as used for VEC. Lanthanides
+	// count 3 (Eu and Yb, divalent in the metal, count 2); actinides count
+	// every electron outside the radon core. See the table's source notes.
 	ValenceElectrons int
 	// Group is the IUPAC group (1-18); 0 for lanthanides and actinides.
 	Group int
@@ -41,7 +43,8 @@ type Element struct {
 	SpecificHeat float64
 	// ThermalConductivity near room temperature, in W/(m·K).
 	ThermalConductivity float64
-	Hazards             Hazard
+	// Hazards are the bench hazard classes to show as cautions.
+	Hazards Hazard
 }
 
 // HasElectronegativity reports whether a Pauling value is tabulated.
@@ -50,13 +53,52 @@ func (e Element) HasElectronegativity() bool { return e.Electronegativity > 0 }
 // HasMetallicRadius reports whether a CN12 metallic radius is tabulated.
 func (e Element) HasMetallicRadius() bool { return e.MetallicRadiusCN12 > 0 }
 
-var (
-	bySymbol map[string]int
-)
+// HasDensity reports whether a room-temperature density is tabulated.
+func (e Element) HasDensity() bool { return e.Density > 0 }
+
+// HasSpecificHeat reports whether a room-temperature specific heat is tabulated.
+func (e Element) HasSpecificHeat() bool { return e.SpecificHeat > 0 }
+
+// HasThermalConductivity reports whether a room-temperature thermal
+// conductivity is tabulated.
+func (e Element) HasThermalConductivity() bool { return e.ThermalConductivity > 0 }
+
+// Has reports whether h includes every class in x.
+func (h Hazard) Has(x Hazard) bool { return h&x == x }
+
+// String lists the hazard classes in words, e.g. "toxic, readily burning";
+// "none" for the empty set.
+func (h Hazard) String() string {
+	var words []string
+	if h.Has(Toxic) {
+		words = append(words, "toxic")
+	}
+	if h.Has(ReadilyBurning) {
+		words = append(words, "readily burning")
+	}
+	if h.Has(Radioactive) {
+		words = append(words, "radioactive")
+	}
+	if len(words) == 0 {
+		return "none"
+	}
+	return strings.Join(words, ", ")
+}
+
+// MaxZ is the highest atomic number in the table (plutonium).
+const MaxZ = 94
+
+var bySymbol map[string]int
 
 func init() {
+	if len(table) != MaxZ {
+		panic("element: table must hold Z = 1..MaxZ")
+	}
 	bySymbol = make(map[string]int, len(table))
 	for i, e := range table {
+		if e.Z != i+1 {
+			panic("element: table out of order at " + e.Symbol)
+		}
 		bySymbol[e.Symbol] = i
 	}
 }
@@ -71,20 +113,18 @@ func BySymbol(symbol string) (Element, bool) {
 	return table[i], true
 }
 
-// ByZ returns the element with atomic number z.
+// ByZ returns the element with atomic number z (1 ≤ z ≤ MaxZ).
 func ByZ(z int) (Element, bool) {
-	for _, e := range table {
-		if e.Z == z {
-			return e, true
-		}
+	if z < 1 || z > len(table) {
+		return Element{}, false
 	}
-	return Element{}, false
+	return table[z-1], true
 }
 
 // All returns every element in the table, ordered by atomic number.
+// The slice is a copy; callers may modify it.
 func All() []Element {
 	out := make([]Element, len(table))
 	copy(out, table)
-	sort.Slice(out, func(i, j int) bool { return out[i].Z < out[j].Z })
 	return out
 }
