@@ -6,8 +6,9 @@ import "strconv"
 // percentage rounded to precision decimals with trailing zeros trimmed:
 // Al62.5Cu25Fe12.5 at precision 1 or more, Al63Cu25Fe12 at precision 0.
 // A negative precision writes the shortest form that reads back to the
-// same number. Elements keep their order. Rounded values need not add up
-// to exactly 100. The result reads back with Parse.
+// same number. Rounding is to nearest, ties to even on the exact binary
+// value (as strconv does), and rounded values need not add up to exactly
+// 100. Elements keep their order. The result reads back with Parse.
 func (c Composition) Format(precision int) string {
 	return string(c.appendFormula(nil, 100, precision))
 }

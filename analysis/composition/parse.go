@@ -655,6 +655,9 @@ func (p *parser) amount() (float64, bool, *ParseError) {
 			return 0, false, p.fail(j, "a digit after the decimal point", fmt.Sprintf("%q has no digits after the decimal point", p.s[start:j]))
 		}
 	}
+	if j < len(p.s) && p.s[j] == '.' {
+		return 0, false, p.fail(j, "an element symbol after the amount", fmt.Sprintf("second decimal point in %q", p.s[start:amountEnd(p.s, j)]))
+	}
 	if j+1 < len(p.s) && p.s[j] == ',' && isDigit(p.s[j+1]) {
 		k := j + 1
 		for k < len(p.s) && isDigit(p.s[k]) {
