@@ -1,0 +1,306 @@
+package scanfile
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Tags of the pdCIF dictionary read here, in order of preference.
+var (
+	twoThetaTags  = []string{"_pd_meas_2theta_scan", "_pd_meas_angle_2theta", "_pd_proc_2theta_corrected"}
+	intensityTags = []string{"_pd_meas_counts_total", "_pd_meas_intensity_total", "_pd_proc_intensity_total"}
+	rangePrefixes = []string{"_pd_meas_2theta_range_", "_pd_proc_2theta_range_"}
+)
+
+const (
+	tagWavelength       = "_diffrn_radiation_wavelength"
+	tagWavelengthWeight = "_diffrn_radiation_wavelength_wt"
+	tagTarget           = "_diffrn_source_target"
+)
+
+// readPowderCIF reads the first data block of a CIF file that holds a
+// looped intensity column; see the package documentation.
+func readPowderCIF(file string, data []byte) (Scan, error) {
+	blocks, err := parseCIF(file, data)
+	if err != nil {
+		return Scan{}, err
+	}
+	var (
+		block *cifBlock
+		loop  *cifLoop
+		iCol  = -1
+		iTag  string
+	)
+search:
+	for _, b := range blocks {
+		for _, t := range intensityTags {
+			for _, lp := range b.loops {
+				if c := lp.column(t); c >= 0 {
+					block, loop, iCol, iTag = b, lp, c, t
+					break search
+				}
+			}
+		}
+	}
+	if block == nil {
+		return Scan{}, &Error{File: file, Err: ErrNoData,
+			Msg: "no data block has a looped intensity (" + strings.Join(intensityTags, ", ") + ")"}
+	}
+
+	s := Scan{Format: FormatPowderCIF, Items: map[string]string{}}
+	for tag, v := range block.items {
+		s.Items[tag] = v.text
+	}
+
+	// 2θ: a looped column, else the range items.
+	tCol, tTag := -1, ""
+	for _, t := range twoThetaTags {
+		if c := loop.column(t); c >= 0 {
+			tCol, tTag = c, t
+			break
+		}
+	}
+	var rangeTwoTheta []float64
+	if tCol < 0 {
+		rangeTwoTheta, err = twoThetaFromRange(file, block, loop)
+		if err != nil {
+			return Scan{}, err
+		}
+	}
+
+	pts := make([]point, len(loop.rows))
+	withESD := 0
+	for i, row := range loop.rows {
+		p := &pts[i]
+		v, su, hasSU, err := cifNumber(file, row[iCol], iTag)
+		if err != nil {
+			return Scan{}, err
+		}
+		p.counts, p.esd, p.countsAt, p.countsName = v, su, row[iCol].pos, iTag
+		p.esdAt, p.esdName = row[iCol].pos, iTag+" uncertainty"
+		if hasSU {
+			withESD++
+		}
+		if tCol >= 0 {
+			if p.twoTheta, _, _, err = cifNumber(file, row[tCol], tTag); err != nil {
+				return Scan{}, err
+			}
+			p.twoThetaAt, p.twoThetaName = row[tCol].pos, tTag
+		} else {
+			p.twoTheta, p.twoThetaAt, p.twoThetaName = rangeTwoTheta[i], row[iCol].pos, "2θ from the range items"
+		}
+	}
+	if withESD != 0 && withESD != len(pts) {
+		for _, row := range loop.rows {
+			if _, _, has, _ := cifNumber(file, row[iCol], iTag); !has {
+				return Scan{}, &Error{File: file, Line: row[iCol].pos.line, Column: row[iCol].pos.col, Err: ErrMissing,
+					Msg: fmt.Sprintf("%s: value %q has no standard uncertainty in parentheses; %d other values of the loop have one", iTag, row[iCol].text, withESD)}
+			}
+		}
+	}
+	if err := finish(file, pts, withESD > 0, &s); err != nil {
+		return Scan{}, err
+	}
+	if s.Wavelengths, err = wavelengths(file, block, blocks); err != nil {
+		return Scan{}, err
+	}
+	if t, ok := block.items[tagTarget]; ok && t.text != "?" && t.text != "." {
+		s.Anode = t.text
+	} else {
+		for _, b := range blocks {
+			if t, ok := b.items[tagTarget]; ok && t.text != "?" && t.text != "." {
+				s.Anode = t.text
+				break
+			}
+		}
+	}
+	return s, nil
+}
+
+// twoThetaFromRange builds 2θ from _pd_meas_2theta_range_min, _max and
+// _inc (or the _pd_proc_ items): min + i·inc for i = 0 … n−1, where
+// n = round((max − min)/inc) + 1 must equal the loop's row count and
+// min + (n−1)·inc must meet max within a hundredth of a step.
+func twoThetaFromRange(file string, block *cifBlock, loop *cifLoop) ([]float64, error) {
+	for _, prefix := range rangePrefixes {
+		minTok, ok1 := block.items[prefix+"min"]
+		maxTok, ok2 := block.items[prefix+"max"]
+		incTok, ok3 := block.items[prefix+"inc"]
+		if !ok1 && !ok2 && !ok3 {
+			continue
+		}
+		for _, it := range []struct {
+			ok  bool
+			tag string
+		}{{ok1, "min"}, {ok2, "max"}, {ok3, "inc"}} {
+			if !it.ok {
+				return nil, &Error{File: file, Err: ErrMissing,
+					Msg: fmt.Sprintf("data_%s: 2θ is not looped and %s%s is missing", block.name, prefix, it.tag)}
+			}
+		}
+		lo, _, _, err := cifNumber(file, minTok, prefix+"min")
+		if err != nil {
+			return nil, err
+		}
+		hi, _, _, err := cifNumber(file, maxTok, prefix+"max")
+		if err != nil {
+			return nil, err
+		}
+		inc, _, _, err := cifNumber(file, incTok, prefix+"inc")
+		if err != nil {
+			return nil, err
+		}
+		if !(inc > 0) || !(hi > lo) {
+			return nil, &Error{File: file, Line: incTok.pos.line, Column: incTok.pos.col, Err: ErrOutOfRange,
+				Msg: fmt.Sprintf("2θ range min %v, max %v, inc %v: need max > min and inc > 0", lo, hi, inc)}
+		}
+		steps := (hi - lo) / inc
+		n := math.Round(steps) + 1
+		if math.Abs(steps-(n-1)) > 0.01 || n > MaxBytes {
+			return nil, &Error{File: file, Line: incTok.pos.line, Column: incTok.pos.col, Err: ErrOutOfRange,
+				Msg: fmt.Sprintf("2θ range %v to %v is not a whole number of %v° steps", lo, hi, inc)}
+		}
+		if int(n) != len(loop.rows) {
+			return nil, &Error{File: file, Line: loop.at.line, Column: loop.at.col, Err: ErrColumns,
+				Msg: fmt.Sprintf("2θ range %v to %v by %v gives %d points but the loop has %d rows", lo, hi, inc, int(n), len(loop.rows))}
+		}
+		out := make([]float64, int(n))
+		for i := range out {
+			out[i] = lo + float64(i)*inc
+		}
+		return out, nil
+	}
+	return nil, &Error{File: file, Line: loop.at.line, Column: loop.at.col, Err: ErrMissing,
+		Msg: "loop gives intensities but no 2θ: loop " + strings.Join(twoThetaTags, ", ") +
+			" or give _pd_meas_2theta_range_min, _max and _inc"}
+}
+
+// wavelengths reads _diffrn_radiation_wavelength (looped or not, with
+// optional _wt) from the pattern block, else from the first block that has
+// it.
+func wavelengths(file string, block *cifBlock, blocks []*cifBlock) ([]Wavelength, error) {
+	order := append([]*cifBlock{block}, blocks...)
+	for _, b := range order {
+		if t, ok := b.items[tagWavelength]; ok {
+			if t.text == "?" || t.text == "." {
+				return nil, nil
+			}
+			v, _, _, err := cifNumber(file, t, tagWavelength)
+			if err != nil {
+				return nil, err
+			}
+			w := Wavelength{Angstrom: v}
+			if wt, ok := b.items[tagWavelengthWeight]; ok {
+				if w.Weight, _, _, err = cifNumber(file, wt, tagWavelengthWeight); err != nil {
+					return nil, err
+				}
+			}
+			return []Wavelength{w}, checkWavelengths(file, []Wavelength{w}, t)
+		}
+		for _, lp := range b.loops {
+			c := lp.column(tagWavelength)
+			if c < 0 {
+				continue
+			}
+			cw := lp.column(tagWavelengthWeight)
+			var out []Wavelength
+			for _, row := range lp.rows {
+				v, _, _, err := cifNumber(file, row[c], tagWavelength)
+				if err != nil {
+					return nil, err
+				}
+				w := Wavelength{Angstrom: v}
+				if cw >= 0 {
+					if w.Weight, _, _, err = cifNumber(file, row[cw], tagWavelengthWeight); err != nil {
+						return nil, err
+					}
+				}
+				out = append(out, w)
+				if err := checkWavelengths(file, out[len(out)-1:], row[c]); err != nil {
+					return nil, err
+				}
+			}
+			return out, nil
+		}
+	}
+	return nil, nil
+}
+
+func checkWavelengths(file string, ws []Wavelength, at token) error {
+	for _, w := range ws {
+		if !(w.Angstrom > 0) || w.Weight < 0 {
+			return &Error{File: file, Line: at.pos.line, Column: at.pos.col, Err: ErrOutOfRange,
+				Msg: fmt.Sprintf("%s: wavelength %v Å with weight %v: need a positive wavelength and a non-negative weight", tagWavelength, w.Angstrom, w.Weight)}
+		}
+	}
+	return nil
+}
+
+// cifNumber reads a CIF numeric value with an optional standard
+// uncertainty in parentheses, which counts in units of the last digit of
+// the mantissa: "28.4400(5)" is 28.44 ± 0.0005, "1.5e3(2)" is 1500 ± 200.
+func cifNumber(file string, t token, tag string) (v, su float64, hasSU bool, err error) {
+	fail := func(e error) (float64, float64, bool, error) {
+		return 0, 0, false, &Error{File: file, Line: t.pos.line, Column: t.pos.col, Err: kindOf(e),
+			Msg: fmt.Sprintf("%s: %v", tag, e)}
+	}
+	text := t.text
+	if !t.quoted && (text == "?" || text == ".") {
+		return fail(&valueError{text, ErrMissing})
+	}
+	num := text
+	if open := strings.IndexByte(text, '('); open >= 0 {
+		if !strings.HasSuffix(text, ")") || open+2 > len(text)-1 {
+			return fail(&valueError{text, ErrNotNumber})
+		}
+		digits := text[open+1 : len(text)-1]
+		for i := 0; i < len(digits); i++ {
+			if digits[i] < '0' || digits[i] > '9' {
+				return fail(&valueError{text, ErrNotNumber})
+			}
+		}
+		num = text[:open]
+		n, perr := strconv.ParseFloat(digits, 64)
+		if perr != nil || math.IsInf(n, 0) {
+			return fail(&valueError{text, ErrNotFinite})
+		}
+		su = n * math.Pow(10, float64(exponentOf(num)-decimalsOf(num)))
+		if math.IsInf(su, 0) || math.IsNaN(su) {
+			return fail(&valueError{text, ErrNotFinite})
+		}
+		hasSU = true
+	}
+	v, perr := parseDecimal(num)
+	if perr != nil {
+		return fail(&valueError{text, kindOf(perr)})
+	}
+	return v, su, hasSU, nil
+}
+
+// decimalsOf counts the digits after the decimal point of a mantissa.
+func decimalsOf(num string) int {
+	m := num
+	if i := strings.IndexAny(m, "eE"); i >= 0 {
+		m = m[:i]
+	}
+	if i := strings.IndexByte(m, '.'); i >= 0 {
+		return len(m) - i - 1
+	}
+	return 0
+}
+
+// exponentOf returns the decimal exponent of a number, 0 when it has none
+// or it is out of reach.
+func exponentOf(num string) int {
+	i := strings.IndexAny(num, "eE")
+	if i < 0 {
+		return 0
+	}
+	e, err := strconv.Atoi(num[i+1:])
+	if err != nil || e > 400 || e < -400 {
+		return 0
+	}
+	return e
+}
