@@ -64,8 +64,15 @@ type reference struct {
 	PeriodictableDensity        *float64 // g/cm³
 }
 
+// referenceCache keeps the libraries' values for the whole test binary;
+// the tests that use it do not run in parallel.
+var referenceCache []reference
+
 func loadReference(t *testing.T) []reference {
 	t.Helper()
+	if referenceCache != nil {
+		return referenceCache
+	}
 	out := pyref.Run(t, []string{"pymatgen.core", "periodictable"}, referenceScript, nil)
 	var refs []reference
 	if err := json.Unmarshal(out, &refs); err != nil {
@@ -74,6 +81,7 @@ func loadReference(t *testing.T) []reference {
 	if len(refs) != element.MaxZ {
 		t.Fatalf("reference script returned %d elements, want %d", len(refs), element.MaxZ)
 	}
+	referenceCache = refs
 	return refs
 }
 
