@@ -117,13 +117,17 @@ func SchemeNames() []string { return []string{GroupScheme, RaynorScheme} }
 // LookupScheme returns a copy of the built-in scheme with the given name
 // ("group" or "raynor").
 func LookupScheme(name string) (Scheme, bool) {
-	switch name {
-	case GroupScheme:
-		return groupScheme(), true
-	case RaynorScheme:
-		return raynorScheme(), true
+	s, ok := builtIn[name]
+	if !ok {
+		return Scheme{}, false
 	}
-	return Scheme{}, false
+	return s.Clone(), true
+}
+
+// builtIn holds the built-in schemes; LookupScheme hands out clones.
+var builtIn = map[string]Scheme{
+	GroupScheme:  groupScheme(),
+	RaynorScheme: raynorScheme(),
 }
 
 // LoadScheme returns the built-in scheme called nameOrPath, or else reads
