@@ -147,8 +147,7 @@ func Parse(s string) (Parsed, error) {
 // ParseWith is Parse with options; opt.Basis applies to text with no
 // unit suffix.
 func ParseWith(s string, opt Options) (Parsed, error) {
-	var buf [16]entry
-	p := parser{s: s, entries: buf[:0]}
+	p := parser{s: s, lastSymbolEnd: -1}
 	out, perr := p.parse(opt)
 	if perr != nil {
 		return Parsed{Entered: s}, perr
@@ -170,9 +169,14 @@ type entry struct {
 }
 
 type parser struct {
-	s        string
-	i        int
-	entries  []entry
+	s string
+	i int
+	// The entries live in small until it is full, then in more; all
+	// returns them. Keeping them in the parser value lets the common case
+	// run without allocating.
+	small    [16]entry
+	n        int
+	more     []entry
 	lists    int
 	warnings []string
 	// lastSymbolEnd and lastSymbolShort track the previous symbol so that
@@ -187,6 +191,25 @@ type listInfo struct {
 	total    float64
 	notation Notation
 	scale    Scale
+}
+
+func (p *parser) all() []entry {
+	if p.more != nil {
+		return p.more
+	}
+	return p.small[:p.n]
+}
+
+func (p *parser) add(e entry) {
+	if p.more == nil && p.n < len(p.small) {
+		p.small[p.n] = e
+		p.n++
+		return
+	}
+	if p.more == nil {
+		p.more = append(make([]entry, 0, 4*len(p.small)), p.small[:p.n]...)
+	}
+	p.more = append(p.more, e)
 }
 
 func (p *parser) fail(pos int, expected, problem string) *ParseError {
@@ -248,7 +271,7 @@ func (p *parser) parse(opt Options) (Parsed, *ParseError) {
 		Warnings: p.warnings,
 	}
 	if basis == Weight {
-		out.Atomic = weightToAtomic(written, p.entries)
+		out.Atomic = weightToAtomic(written, p.all())
 	}
 	return out, nil
 }
@@ -257,7 +280,7 @@ func (p *parser) parse(opt Options) (Parsed, *ParseError) {
 // amount, drops zero amounts and normalises.
 func (p *parser) merge() (Composition, *ParseError) {
 	n := 0
-	for k, e := range p.entries {
+	for k, e := range p.all() {
 		if e.amount > 0 && !p.seenBefore(k) {
 			n++
 		}
@@ -267,7 +290,7 @@ func (p *parser) merge() (Composition, *ParseError) {
 	}
 	out := make(Composition, 0, n)
 	var sum float64
-	for k, e := range p.entries {
+	for k, e := range p.all() {
 		if e.amount == 0 {
 			continue
 		}
@@ -293,7 +316,7 @@ func (p *parser) merge() (Composition, *ParseError) {
 // the symbol of entry k.
 func (p *parser) seenBefore(k int) bool {
 	for j := 0; j < k; j++ {
-		if p.entries[j].amount > 0 && p.entries[j].symbol == p.entries[k].symbol {
+		if p.all()[j].amount > 0 && p.all()[j].symbol == p.all()[k].symbol {
 			return true
 		}
 	}
@@ -329,7 +352,7 @@ func weightToAtomic(w Composition, entries []entry) Composition {
 func (p *parser) list(depth, groupPos int) (listInfo, *ParseError) {
 	id := p.lists
 	p.lists++
-	first := len(p.entries)
+	first := len(p.all())
 	p.space()
 	if p.atListEnd() {
 		return listInfo{}, p.expectTerm("an element symbol or \"(\"")
@@ -386,7 +409,7 @@ func (p *parser) list(depth, groupPos int) (listInfo, *ParseError) {
 // balance parses the rest of a balance list, "-25Cu-12Fe", after its
 // first term (entries from lo on) and gives that term 100 minus the rest.
 func (p *parser) balance(depth, id, first, lo, basePos, groupPos int) (listInfo, *ParseError) {
-	baseEnd := len(p.entries)
+	baseEnd := len(p.all())
 	var rest float64
 	for {
 		n := dashAt(p.s[p.i:])
@@ -463,7 +486,7 @@ func (p *parser) balance(depth, id, first, lo, basePos, groupPos int) (listInfo,
 			name, strconv.FormatFloat(base, 'g', 6, 64), strconv.FormatFloat(rest, 'g', -1, 64)))
 	}
 	for k := lo; k < baseEnd; k++ {
-		p.entries[k].amount *= base
+		p.all()[k].amount *= base
 	}
 	return listInfo{total: 100, notation: Balance, scale: Percent}, nil
 }
@@ -472,34 +495,37 @@ func (p *parser) balance(depth, id, first, lo, basePos, groupPos int) (listInfo,
 // and warns when the total is off that scale. whole reports whether every
 // written amount is a whole number.
 func (p *parser) classify(total float64, whole bool, groupPos int) Scale {
-	where := ""
-	if groupPos >= 0 {
-		where = fmt.Sprintf(" in the group at position %d", groupPos)
-	}
-	t := strconv.FormatFloat(total, 'g', 6, 64)
 	switch {
 	case total <= 1.5:
 		if math.Abs(total-1) > 0.005 {
-			p.warn("the fractions%s total %s rather than 1; normalised", where, t)
+			p.warn("the fractions%s total %.6g rather than 1; normalised", inGroup(groupPos), total)
 		}
 		return Fractions
 	case total >= 50:
 		if math.Abs(total-100) > 0.5 {
-			p.warn("the percentages%s total %s rather than 100; normalised", where, t)
+			p.warn("the percentages%s total %.6g rather than 100; normalised", inGroup(groupPos), total)
 		}
 		return Percent
 	default:
 		if !whole {
-			p.warn("the amounts%s total %s, neither about 1 (fractions) nor about 100 (percent); read as proportions and normalised", where, t)
+			p.warn("the amounts%s total %.6g, neither about 1 (fractions) nor about 100 (percent); read as proportions and normalised", inGroup(groupPos), total)
 		}
 		return Proportions
 	}
 }
 
+// inGroup returns " in the group at position N", or "" at the top level.
+func inGroup(groupPos int) string {
+	if groupPos < 0 {
+		return ""
+	}
+	return " in the group at position " + strconv.Itoa(groupPos)
+}
+
 // term parses an element symbol or a group and returns the index of its
 // first entry; the term's entries sum to 1.
 func (p *parser) term(depth, id, first int) (int, *ParseError) {
-	lo := len(p.entries)
+	lo := len(p.all())
 	start := p.i
 	c := p.s[p.i]
 	switch {
@@ -529,8 +555,8 @@ func (p *parser) term(depth, id, first int) (int, *ParseError) {
 		if !(inner.total > 0) {
 			return 0, p.fail(start, "a group with a positive amount", "the group at position "+strconv.Itoa(start)+" has no positive amount")
 		}
-		for k := lo; k < len(p.entries); k++ {
-			p.entries[k].amount /= inner.total
+		for k := lo; k < len(p.all()); k++ {
+			p.all()[k].amount /= inner.total
 		}
 		p.lastSymbolEnd = -1
 		return lo, nil
@@ -548,13 +574,13 @@ func (p *parser) term(depth, id, first int) (int, *ParseError) {
 			p.warn("%s at position %d reads as %s then %s; symbols are case-sensitive (did you mean %s?)",
 				pair, p.i-1, pair[:1], pair[1:], fix)
 		}
-		for k := first; k < len(p.entries); k++ {
-			if p.entries[k].list == id && p.entries[k].symbol == e.Symbol {
-				p.warn("%s is written twice (positions %d and %d); the amounts are added", e.Symbol, p.entries[k].pos, p.i)
+		for k := first; k < len(p.all()); k++ {
+			if p.all()[k].list == id && p.all()[k].symbol == e.Symbol {
+				p.warn("%s is written twice (positions %d and %d); the amounts are added", e.Symbol, p.all()[k].pos, p.i)
 				break
 			}
 		}
-		p.entries = append(p.entries, entry{symbol: e.Symbol, weight: e.AtomicWeight, amount: 1, pos: p.i, list: id})
+		p.add(entry{symbol: e.Symbol, weight: e.AtomicWeight, amount: 1, pos: p.i, list: id})
 		p.i += n
 		p.lastSymbolEnd = p.i
 		p.lastSymbolShort = n == 1
@@ -615,7 +641,7 @@ func (p *parser) lowercase() *ParseError {
 	}
 	if n < len(run) && run[n] == '%' {
 		// "Cat%": the unit's "a" was taken into the symbol "Ca".
-		if p.lastSymbolEnd == p.i && !p.lastSymbolShort && unitAt(p.s[p.i-1:]) > 0 {
+		if p.i >= 2 && p.lastSymbolEnd == p.i && !p.lastSymbolShort && unitAt(p.s[p.i-1:]) > 0 {
 			return p.fail(p.i, `a space before the unit`, fmt.Sprintf(
 				"%q is read as the symbol %s followed by %q; put a space before the unit (%s %s)",
 				p.s[p.i-2:p.i+n+1], p.s[p.i-2:p.i], run[:n+1], p.s[p.i-2:p.i-1], p.s[p.i-1:p.i+n+1]))
@@ -675,8 +701,8 @@ func (p *parser) amount() (float64, bool, *ParseError) {
 
 // scale multiplies the amounts of entries lo.. by f.
 func (p *parser) scale(lo int, f float64) {
-	for k := lo; k < len(p.entries); k++ {
-		p.entries[k].amount *= f
+	for k := lo; k < len(p.all()); k++ {
+		p.all()[k].amount *= f
 	}
 }
 
@@ -686,7 +712,7 @@ func (p *parser) describeTerm(pos, lo int) string {
 	if p.s[pos] == '(' {
 		return "the group"
 	}
-	return p.entries[lo].symbol
+	return p.all()[lo].symbol
 }
 
 // peekTerm names the symbol or group starting at p.i.

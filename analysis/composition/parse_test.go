@@ -176,8 +176,8 @@ func TestParseWarnings(t *testing.T) {
 		{"Al63Cu25Fe12", nil},
 		{"Al-25Cu-12Fe", nil},
 		{"Al2Cu", nil},
-		{"Al63Cu25Fe12.4", nil},                                // total 100.4, within 0.5
-		{"Al0.63Cu0.25Fe0.124", nil},                           // total 1.004, within 0.005
+		{"Al63Cu25Fe12.4", nil},      // total 100.4, within 0.5
+		{"Al0.63Cu0.25Fe0.124", nil}, // total 1.004, within 0.005
 		{"Al63Cu25Fe13", []string{"total 101 rather than 100"}}, // off by 1
 		{"Al0.63Cu0.25Fe0.13", []string{"total 1.01 rather than 1"}},
 		{"Al0.63Cu25", []string{"total 25.63, neither about 1"}},
@@ -309,4 +309,32 @@ func TestParseErrorMessage(t *testing.T) {
 	if err == nil || err.Error() != want {
 		t.Errorf("got %v, want %s", err, want)
 	}
+}
+
+func TestParseManyElements(t *testing.T) {
+	// More elements than the parser keeps inline; worked by hand: 20
+	// bare symbols count 1 each, so each is 1/20, and the repeated Al adds
+	// 1 more: Al 2/21, the others 1/21.
+	symbols := []string{"Al", "Cu", "Fe", "Ni", "Co", "Cr", "Mn", "Ti", "Zr", "V",
+		"Nb", "Mo", "Ta", "W", "Hf", "Si", "B", "C", "Y", "Sc"}
+	in := strings.Join(symbols, "")
+	p, err := composition.Parse(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var w want
+	for _, s := range symbols {
+		w = append(w, composition.Part{Element: s, Fraction: 1.0 / 20})
+	}
+	checkFractions(t, in, p.Atomic, w, 1e-15)
+
+	p, err = composition.Parse(in + "Al")
+	if err != nil {
+		t.Fatal(err)
+	}
+	w[0].Fraction = 2.0 / 21
+	for i := 1; i < len(w); i++ {
+		w[i].Fraction = 1.0 / 21
+	}
+	checkFractions(t, in+"Al", p.Atomic, w, 1e-15)
 }
