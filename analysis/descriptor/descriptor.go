@@ -103,7 +103,8 @@ const (
 //	n   = (e/a)/V,  kF = (3π²·n)^(1/3),  2kF                 (Å⁻³, Å⁻¹)
 //
 // c must be a normalised atomic composition (fractions summing to 1). A
-// missing valence in the scheme, an unknown element, or an element without
+// missing valence in the scheme (an *element.MissingValenceError, wrapped),
+// an unknown element, or an element without
 // a CN12 radius or Pauling electronegativity is an error naming the
 // element. An element without a density only leaves the volume and kF
 // unknown (VolumeMethod says why), unless the alloy density is given. When
@@ -135,9 +136,9 @@ func Describe(c composition.Composition, scheme element.Scheme, opt Options) (De
 		if !ok {
 			return Descriptors{}, fmt.Errorf("describe: unknown element %q", p.Element)
 		}
-		v, ok := scheme.ValenceOf(p.Element)
-		if !ok {
-			return Descriptors{}, fmt.Errorf("describe: valence scheme %q has no valence for %s; add one or choose another scheme", scheme.Name, p.Element)
+		v, err := scheme.Require(p.Element)
+		if err != nil {
+			return Descriptors{}, fmt.Errorf("describe: %w", err)
 		}
 		if !e.HasMetallicRadius() {
 			return Descriptors{}, fmt.Errorf("describe: no CN12 metallic radius is tabulated for %s, so δ cannot be computed", p.Element)

@@ -1,6 +1,7 @@
 package descriptor_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -291,7 +292,7 @@ func TestDescribeErrors(t *testing.T) {
 		opt  descriptor.Options
 		want string
 	}{
-		{"missing valence", comp(t, "Al", 70.0, "Ni", 30.0), groupValences, descriptor.Options{}, `scheme "group valences (test table)" has no valence for Ni`},
+		{"missing valence", comp(t, "Al", 70.0, "Ni", 30.0), groupValences, descriptor.Options{}, `valence scheme "group valences (test table)" has no valence for Ni`},
 		{"unknown element", composition.Composition{{Element: "Qx", Fraction: 1}}, raynor, descriptor.Options{}, `unknown element "Qx"`},
 		{"no radius", composition.Composition{{Element: "O", Fraction: 1}}, element.Scheme{Name: "x", Valence: map[string]float64{"O": -2}}, descriptor.Options{}, "no CN12 metallic radius is tabulated for O"},
 		{"negative density", comp(t, "Al", 1.0), raynor, descriptor.Options{DensityGPerCm3: -1}, "must be positive"},
@@ -304,6 +305,31 @@ func TestDescribeErrors(t *testing.T) {
 				t.Errorf("err = %v, want %q", err, tt.want)
 			}
 		})
+	}
+}
+
+func TestBuiltInSchemes(t *testing.T) {
+	// The element package's built-in Raynor scheme must count every family
+	// member as the windows' sources do, so that its e/a is compared.
+	raynorBuiltIn, ok := element.LookupScheme(element.RaynorScheme)
+	if !ok {
+		t.Fatal("no built-in raynor scheme")
+	}
+	for _, w := range descriptor.Windows() {
+		for sym, want := range w.Valences {
+			got, ok := raynorBuiltIn.ValenceOf(sym)
+			if !ok || math.Abs(got-want) > 0.005 {
+				t.Errorf("%s window counts %s as %g; built-in raynor gives %g (defined %v)", w.Family, sym, want, got, ok)
+			}
+		}
+	}
+	// The group scheme leaves Fe undefined: the error names the element,
+	// the scheme and the way out (a typed error from the element package).
+	group, _ := element.LookupScheme(element.GroupScheme)
+	_, err := descriptor.Describe(comp(t, "Al", 65.0, "Cu", 20.0, "Fe", 15.0), group, descriptor.Options{})
+	var missing *element.MissingValenceError
+	if !errors.As(err, &missing) || missing.Symbol != "Fe" || !strings.Contains(err.Error(), "raynor") {
+		t.Errorf("err = %v", err)
 	}
 }
 
@@ -348,7 +374,10 @@ func ExampleDescribe() {
 	if err != nil {
 		panic(err)
 	}
-	scheme := element.Scheme{Name: "Raynor", Valence: map[string]float64{"Al": 3, "Cu": 1, "Fe": -2.66}}
+	scheme, err := element.LoadScheme("raynor")
+	if err != nil {
+		panic(err)
+	}
 	d, err := descriptor.Describe(p.Atomic, scheme, descriptor.Options{})
 	if err != nil {
 		panic(err)
@@ -356,6 +385,6 @@ func ExampleDescribe() {
 	fmt.Printf("e/a = %.3f (%s), VEC = %.2f\n", d.ElectronsPerAtom, d.Scheme, d.VEC)
 	fmt.Println(d.Flags[len(d.Flags)-1].Text)
 	// Output:
-	// e/a = 1.751 (Raynor), VEC = 5.35
+	// e/a = 1.751 (raynor), VEC = 5.35
 	// e/a 1.751 is inside the Al-Cu-(Fe,Ru,Os) window 1.70-1.80 where stable icosahedral phases formed (a guide, not a phase boundary)
 }
