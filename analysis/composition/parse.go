@@ -228,6 +228,7 @@ func (p *parser) parse(opt Options) (Parsed, *ParseError) {
 	if unitAt(p.s[p.i:]) > 0 {
 		return Parsed{}, p.fail(p.i, `an element symbol or "("`, "a unit with no composition before it")
 	}
+	start := p.i
 	top, err := p.list(0, -1)
 	if err != nil {
 		return Parsed{}, err
@@ -241,22 +242,20 @@ func (p *parser) parse(opt Options) (Parsed, *ParseError) {
 		case c == '%':
 			return Parsed{}, p.fail(p.i, "at% or wt%", `a bare "%" does not say whether it is at% or wt%`)
 		}
-		n := unitAt(p.s[p.i:])
-		if n == 0 {
-			return Parsed{}, p.unexpected("a unit (at% or wt%) or the end")
-		}
+		// The list stops only at the end, ")", "%" or a unit, so what is
+		// left here is a unit.
 		if p.s[p.i] == 'w' || p.s[p.i] == 'm' {
 			basis = Weight
 		} else {
 			basis = Atomic
 		}
-		p.i += n
+		p.i += unitAt(p.s[p.i:])
 		p.space()
 		if p.i < len(p.s) {
 			return Parsed{}, p.unexpected("the end after the unit")
 		}
 	}
-	written, err := p.merge()
+	written, err := p.merge(start)
 	if err != nil {
 		return Parsed{}, err
 	}
@@ -277,25 +276,27 @@ func (p *parser) parse(opt Options) (Parsed, *ParseError) {
 }
 
 // merge adds repeated elements at their first position with a positive
-// amount, drops zero amounts and normalises.
-func (p *parser) merge() (Composition, *ParseError) {
+// amount, drops zero amounts and normalises; start is where the
+// expression begins, blamed when nothing is left.
+func (p *parser) merge(start int) (Composition, *ParseError) {
+	entries := p.all()
 	n := 0
-	for k, e := range p.all() {
-		if e.amount > 0 && !p.seenBefore(k) {
+	for k, e := range entries {
+		if e.amount > 0 && !seenBefore(entries, k) {
 			n++
 		}
 	}
 	if n == 0 {
-		return nil, p.fail(0, "at least one positive amount", "the amounts total 0; at least one must be positive")
+		return nil, p.fail(start, "at least one positive amount", "the amounts total 0; at least one must be positive")
 	}
 	out := make(Composition, 0, n)
 	var sum float64
-	for k, e := range p.all() {
+	for k, e := range entries {
 		if e.amount == 0 {
 			continue
 		}
 		sum += e.amount
-		if !p.seenBefore(k) {
+		if !seenBefore(entries, k) {
 			out = append(out, Part{Element: e.symbol, Fraction: e.amount})
 			continue
 		}
@@ -314,9 +315,9 @@ func (p *parser) merge() (Composition, *ParseError) {
 
 // seenBefore reports whether an entry before k with a positive amount has
 // the symbol of entry k.
-func (p *parser) seenBefore(k int) bool {
-	for j := 0; j < k; j++ {
-		if p.all()[j].amount > 0 && p.all()[j].symbol == p.all()[k].symbol {
+func seenBefore(entries []entry, k int) bool {
+	for _, e := range entries[:k] {
+		if e.amount > 0 && e.symbol == entries[k].symbol {
 			return true
 		}
 	}
@@ -485,8 +486,9 @@ func (p *parser) balance(depth, id, first, lo, basePos, groupPos int) (listInfo,
 			"balance %s comes to %s: the amounts after it total %s, so nothing is left for it",
 			name, strconv.FormatFloat(base, 'g', 6, 64), strconv.FormatFloat(rest, 'g', -1, 64)))
 	}
-	for k := lo; k < baseEnd; k++ {
-		p.all()[k].amount *= base
+	baseEntries := p.all()[lo:baseEnd]
+	for k := range baseEntries {
+		baseEntries[k].amount *= base
 	}
 	return listInfo{total: 100, notation: Balance, scale: Percent}, nil
 }
@@ -555,8 +557,9 @@ func (p *parser) term(depth, id, first int) (int, *ParseError) {
 		if !(inner.total > 0) {
 			return 0, p.fail(start, "a group with a positive amount", "the group at position "+strconv.Itoa(start)+" has no positive amount")
 		}
-		for k := lo; k < len(p.all()); k++ {
-			p.all()[k].amount /= inner.total
+		group := p.all()[lo:]
+		for k := range group {
+			group[k].amount /= inner.total
 		}
 		p.lastSymbolEnd = -1
 		return lo, nil
@@ -574,9 +577,9 @@ func (p *parser) term(depth, id, first int) (int, *ParseError) {
 			p.warn("%s at position %d reads as %s then %s; symbols are case-sensitive (did you mean %s?)",
 				pair, p.i-1, pair[:1], pair[1:], fix)
 		}
-		for k := first; k < len(p.all()); k++ {
-			if p.all()[k].list == id && p.all()[k].symbol == e.Symbol {
-				p.warn("%s is written twice (positions %d and %d); the amounts are added", e.Symbol, p.all()[k].pos, p.i)
+		for _, earlier := range p.all()[first:] {
+			if earlier.list == id && earlier.symbol == e.Symbol {
+				p.warn("%s is written twice (positions %d and %d); the amounts are added", e.Symbol, earlier.pos, p.i)
 				break
 			}
 		}
@@ -701,8 +704,9 @@ func (p *parser) amount() (float64, bool, *ParseError) {
 
 // scale multiplies the amounts of entries lo.. by f.
 func (p *parser) scale(lo int, f float64) {
-	for k := lo; k < len(p.all()); k++ {
-		p.all()[k].amount *= f
+	entries := p.all()[lo:]
+	for k := range entries {
+		entries[k].amount *= f
 	}
 }
 

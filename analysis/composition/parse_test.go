@@ -264,6 +264,7 @@ func TestParseErrors(t *testing.T) {
 		{"Al" + strings.Repeat("9", 400) + "Cu", 2, "too large"},
 		// all amounts zero
 		{"Al0Cu0", 0, "the amounts total 0"},
+		{"  Al0", 2, "the amounts total 0"},
 		// stray characters and units
 		{"Al63*Cu37", 4, `unexpected character '*'`},
 		{"Al63+Cu37", 4, `unexpected character '+'`},
