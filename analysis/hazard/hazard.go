@@ -1,6 +1,7 @@
 package hazard
 
 import (
+	"slices"
 	"strings"
 
 	"meltbook/analysis/element"
@@ -79,14 +80,12 @@ var elementNotes = map[string]note{
 // Reference: hazard classes from the element table (element.Hazards);
 // wording is meltbook's own (common practice).
 func Cautions(elements []string) []Caution {
-	seen := make(map[string]bool, len(elements))
 	var byKind [4][]string // toxic, burning, radioactive, unknown
 	var notes []Caution
-	for _, sym := range elements {
-		if seen[sym] {
+	for i, sym := range elements {
+		if slices.Contains(elements[:i], sym) {
 			continue
 		}
-		seen[sym] = true
 		e, ok := element.BySymbol(sym)
 		if !ok {
 			byKind[3] = append(byKind[3], sym)

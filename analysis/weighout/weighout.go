@@ -185,23 +185,24 @@ func Plan(c composition.Composition, opt Options) (Sheet, error) {
 		s.Lines[i] = l
 	}
 
-	after := make([]composition.Part, len(c))
-	noLoss := make([]composition.Part, len(c))
-	var left float64
+	// The composition's elements are distinct, so the two compositions are
+	// the mole amounts divided by their totals.
+	s.ExpectedComposition = make(composition.Composition, len(c))
+	s.IfNoLoss = make(composition.Composition, len(c))
+	var left, molesAfter, molesNoLoss float64
 	for i, l := range s.Lines {
 		remaining := l.ElementGrams * (1 - l.Loss)
 		left += remaining
-		after[i] = composition.Part{Element: l.Element, Fraction: remaining / weights[i]}
-		noLoss[i] = composition.Part{Element: l.Element, Fraction: l.ElementGrams / weights[i]}
+		s.ExpectedComposition[i] = composition.Part{Element: l.Element, Fraction: remaining / weights[i]}
+		s.IfNoLoss[i] = composition.Part{Element: l.Element, Fraction: l.ElementGrams / weights[i]}
+		molesAfter += s.ExpectedComposition[i].Fraction
+		molesNoLoss += s.IfNoLoss[i].Fraction
+	}
+	for i := range s.ExpectedComposition {
+		s.ExpectedComposition[i].Fraction /= molesAfter
+		s.IfNoLoss[i].Fraction /= molesNoLoss
 	}
 	s.ExpectedGrams = left + s.ImpurityGrams
-	var err error
-	if s.ExpectedComposition, err = composition.Normalise(after); err != nil {
-		return Sheet{}, fmt.Errorf("weigh-out: %w", err)
-	}
-	if s.IfNoLoss, err = composition.Normalise(noLoss); err != nil {
-		return Sheet{}, fmt.Errorf("weigh-out: %w", err)
-	}
 
 	if len(assumedPure) > 0 {
 		s.Notes = append(s.Notes, "No purity given for "+strings.Join(assumedPure, ", ")+": taken as 100 %. "+
