@@ -101,9 +101,12 @@ const (
 
 // Outcome is one phase found in a sample, with a rough fraction.
 type Outcome struct {
-	ID       int64     `json:"-"`
-	SampleID int64     `json:"-"`
-	Kind     PhaseKind `json:"kind"`
+	ID       int64 `json:"-"`
+	SampleID int64 `json:"-"`
+	// SampleCode names the sample the outcome is about, filled in when
+	// read from the notebook.
+	SampleCode string    `json:"sample,omitempty"`
+	Kind       PhaseKind `json:"kind"`
 	// Lattice is P, F or I for icosahedral phases and P, I or F for cubic ones.
 	Lattice string `json:"lattice,omitempty"`
 	// Order is the approximant order p/q, e.g. "1/1".
