@@ -22,6 +22,9 @@ const (
 	Time
 	HeatTransferCoefficient
 	Fraction
+	Density
+	SpecificHeat
+	ThermalConductivity
 )
 
 var dimensionNames = map[Dimension]string{
@@ -34,6 +37,9 @@ var dimensionNames = map[Dimension]string{
 	Time:                    "time",
 	HeatTransferCoefficient: "heat-transfer coefficient",
 	Fraction:                "fraction",
+	Density:                 "density",
+	SpecificHeat:            "specific heat",
+	ThermalConductivity:     "thermal conductivity",
 }
 
 // String returns the dimension's name in words, e.g. "length".
@@ -58,7 +64,8 @@ func (d Dimension) SIUnit() string {
 // Value is a parsed quantity.
 type Value struct {
 	// SI is the value in the SI unit of its dimension: m, kg, K, Pa, m/s,
-	// rev/s, s, W/(m²·K), or a plain fraction (1 = 100 %).
+	// rev/s, s, W/(m²·K), a plain fraction (1 = 100 %), kg/m³, J/(kg·K)
+	// or W/(m·K).
 	SI        float64
 	Dimension Dimension
 	// Unit is the canonical spelling of the unit the value was written in
@@ -154,6 +161,17 @@ var units = map[Dimension][]unit{
 		{names: []string{"kW/(m²·K)", "kW/m2K"}, aliases: []string{"kW/m2/K", "kWm-2K-1"}, scale: 1e3, listed: true},
 		{names: []string{"MW/(m²·K)", "MW/m2K"}, aliases: []string{"MW/m2/K", "MWm-2K-1"}, scale: 1e6},
 	},
+	Density: {
+		{names: []string{"kg/m³", "kg/m3"}, aliases: []string{"kgm-3"}, scale: 1, listed: true},
+		{names: []string{"g/cm³", "g/cm3"}, aliases: []string{"g/cc", "gcm-3"}, scale: 1000, listed: true},
+	},
+	SpecificHeat: {
+		{names: []string{"J/(kg·K)", "J/kgK"}, aliases: []string{"J/kg/K", "Jkg-1K-1"}, scale: 1, listed: true},
+		{names: []string{"J/(g·K)", "J/gK"}, aliases: []string{"J/g/K", "Jg-1K-1"}, scale: 1000, listed: true},
+	},
+	ThermalConductivity: {
+		{names: []string{"W/(m·K)", "W/mK"}, aliases: []string{"W/m/K", "Wm-1K-1"}, scale: 1, listed: true},
+	},
 	Fraction: {
 		{names: []string{""}, scale: 1, listed: true},
 		{names: []string{"%"}, scale: 1e-2, listed: true},
@@ -241,6 +259,9 @@ var examples = map[Dimension]string{
 	Time:                    "30 min",
 	HeatTransferCoefficient: "1e5 W/(m²·K)",
 	Fraction:                "99.95%",
+	Density:                 "4.5 g/cm³",
+	SpecificHeat:            "600 J/(kg·K)",
+	ThermalConductivity:     "20 W/(m·K)",
 }
 
 // Parse reads s, a number followed by a unit (spaces between them are
@@ -260,6 +281,9 @@ var examples = map[Dimension]string{
 //	time         s, ms, min, h
 //	heat transfer W/(m²·K) (W/m2K), kW/(m²·K), MW/(m²·K)
 //	fraction     a plain number 0-1, %, ppm
+//	density      kg/m³ (kg/m3), g/cm³ (g/cm3, g/cc)
+//	specific heat J/(kg·K) (J/kgK), J/(g·K)
+//	conductivity W/(m·K) (W/mK)
 //
 // Negative values, temperatures below 0 K and fractions above 1 are
 // errors, as is a missing unit (except for a plain fraction). The error
@@ -321,7 +345,7 @@ func wrongUnitError(s, typed string, dim Dimension) error {
 			return fmt.Errorf("%q is a rotation rate, not a surface speed; give the speed in m/s, or the rate together with the wheel diameter (v = π·D·n)", s)
 		}
 	}
-	for d := Length; d <= Fraction; d++ {
+	for d := Length; d <= ThermalConductivity; d++ {
 		if d == dim || d == Fraction {
 			continue
 		}

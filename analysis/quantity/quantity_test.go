@@ -53,6 +53,11 @@ func TestParse(t *testing.T) {
 		{"0.999", quantity.Fraction, 0.999, ""},
 		{"50 ppm", quantity.Fraction, 50e-6, "ppm"},
 		{"+.5 mm", quantity.Length, 0.5e-3, "mm"},
+		{"4.5 g/cm3", quantity.Density, 4500, "g/cm³"},
+		{"2700 kg/m³", quantity.Density, 2700, "kg/m³"},
+		{"897 J/(kg·K)", quantity.SpecificHeat, 897, "J/(kg·K)"},
+		{"0.897 J/gK", quantity.SpecificHeat, 897, "J/(g·K)"},
+		{"237 W/mK", quantity.ThermalConductivity, 237, "W/(m·K)"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
@@ -91,6 +96,7 @@ func TestParseErrors(t *testing.T) {
 		{"3000 rpm", quantity.Speed, "rotation rate, not a surface speed"},
 		{"1e999 m", quantity.Length, "out of range"},
 		{"20 F", quantity.Temperature, `unknown unit "F"`},
+		{"4.5 g/cm3", quantity.Mass, "is a density, not a mass"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
@@ -179,7 +185,7 @@ func FuzzParse(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
-		for d := quantity.Length; d <= quantity.Fraction; d++ {
+		for d := quantity.Length; d <= quantity.ThermalConductivity; d++ {
 			v, err := quantity.Parse(s, d)
 			if err != nil {
 				continue
