@@ -52,3 +52,9 @@ func (a *app) warn(warnings []string) {
 		fmt.Fprintln(a.stderr, "warning:", w)
 	}
 }
+
+// invalid marks an analysis error, whose message already says what is wrong,
+// as bad input.
+func invalid(err error) error {
+	return &meltbook.Error{Kind: meltbook.Invalid, Message: err.Error()}
+}

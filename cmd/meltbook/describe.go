@@ -7,7 +7,6 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"meltbook"
 	"meltbook/analysis/composition"
 	"meltbook/analysis/descriptor"
 	"meltbook/analysis/element"
@@ -68,11 +67,11 @@ with published icosahedral windows.`,
 			}
 			d, err := descriptor.Describe(parsed.Atomic, scheme, descriptor.Options{DensityGPerCm3: density})
 			if err != nil {
-				return meltbook.Errorf(meltbook.Invalid, "composition", "%v", err)
+				return invalid(err)
 			}
 			wf, err := parsed.Atomic.ToWeight()
 			if err != nil {
-				return meltbook.Errorf(meltbook.Invalid, "composition", "%v", err)
+				return invalid(err)
 			}
 			if asJSON {
 				return writeJSON(a.stdout, describeResult(parsed, wf, d))
