@@ -58,11 +58,26 @@ func fitAll(res *Result, scan scanfile.Scan, cands []candidate, variance []float
 		for {
 			g = setupFit(x, raw, res.Background, variance, iLo, iHi, members, step, rad)
 			g.run(o.MaxIterations)
+			// Refuse one candidate at a time, the worst first: no area or
+			// no place in the window, then the least significant area,
+			// then any the covariance cannot judge (a singular covariance
+			// is usually caused by another candidate's zero area).
 			worst, worstWhy, worstScore := -1, "", math.Inf(1)
 			for k := range members {
 				q := g.p[bgTerms+perPeak*k : bgTerms+perPeak*(k+1)]
-				why := rejection(g, q, g.su(bgTerms+perPeak*k+pArea), o.Significance)
-				if score := q[pArea] / g.su(bgTerms+perPeak*k+pArea); why != "" && !(score >= worstScore) {
+				su := g.su(bgTerms + perPeak*k + pArea)
+				why := rejection(g, q, su, o.Significance)
+				if why == "" {
+					continue
+				}
+				score := q[pArea] / su
+				switch {
+				case !(q[pArea] > 0) || q[pCenter] <= g.lo || q[pCenter] >= g.hi:
+					score = math.Inf(-1)
+				case math.IsNaN(score):
+					score = math.MaxFloat64
+				}
+				if worst < 0 || score < worstScore {
 					worst, worstWhy, worstScore = k, why, score
 				}
 			}
