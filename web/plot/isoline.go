@@ -56,12 +56,12 @@ func (g *Grid) Range() (lo, hi float64) {
 
 // Isoline is the set of curves on which a field equals Level.
 type Isoline struct {
-	Level float64
+	Level float64 `json:"level"`
 	// Label is written beside the curve, e.g. "1.75".
-	Label string
+	Label string `json:"label"`
 	// Lines are polylines in ternary coordinates; a closed curve repeats
 	// its first point at the end.
-	Lines [][]Ternary
+	Lines [][]Ternary `json:"lines"`
 }
 
 // Isolines returns the curve where the field equals level, by marching

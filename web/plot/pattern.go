@@ -9,24 +9,24 @@ import (
 // Pattern is a powder diffraction pattern with what analysis made of it.
 type Pattern struct {
 	// TwoThetaDeg are the scan's 2θ positions in degrees, increasing.
-	TwoThetaDeg []float64
+	TwoThetaDeg []float64 `json:"two_theta_deg"`
 	// Counts are the measured intensities at each position.
-	Counts []float64
+	Counts []float64 `json:"counts"`
 	// Background and Fit, when given, have one value per position: the
 	// estimated background and the fitted profile (background included).
-	Background []float64
-	Fit        []float64
-	Peaks      []PeakMark
+	Background []float64  `json:"background,omitempty"`
+	Fit        []float64  `json:"fit,omitempty"`
+	Peaks      []PeakMark `json:"peaks"`
 }
 
 // PeakMark is one peak found in the pattern.
 type PeakMark struct {
-	TwoThetaDeg float64
+	TwoThetaDeg float64 `json:"two_theta_deg"`
 	// Label is the assigned index, e.g. "(7,11)" or "422"; empty when the
 	// peak was not indexed.
-	Label string
+	Label string `json:"label,omitempty"`
 	// Explained is false for a peak that no indexed phase accounts for.
-	Explained bool
+	Explained bool `json:"explained"`
 }
 
 // PatternPlot draws a pattern so that a page can zoom and pan along 2θ.
@@ -201,10 +201,12 @@ func (pp *PatternPlot) SVG() ([]byte, error) {
 	if p.Background != nil {
 		w.series(`fill="none" stroke="#0072B2" stroke-width="1.2" stroke-dasharray="5 3" class="background"`, p.TwoThetaDeg, p.Background, scaleY, tPrec)
 	}
-	w.series(`fill="none" stroke="#000" stroke-width="1" class="counts"`, p.TwoThetaDeg, p.Counts, scaleY, tPrec)
+	// The fit goes under the counts, wider, so that both stay visible
+	// where they agree.
 	if p.Fit != nil {
-		w.series(`fill="none" stroke="#009E73" stroke-width="1.4" class="fit"`, p.TwoThetaDeg, p.Fit, scaleY, tPrec)
+		w.series(`fill="none" stroke="#009E73" stroke-width="2.6" stroke-opacity=".75" class="fit"`, p.TwoThetaDeg, p.Fit, scaleY, tPrec)
 	}
+	w.series(`fill="none" stroke="#000" stroke-width=".9" class="counts"`, p.TwoThetaDeg, p.Counts, scaleY, tPrec)
 	// Peak ticks: a short line above the pattern at each peak.
 	w.raw(`<path fill="none" stroke="#1f2933" stroke-width="1.2" vector-effect="non-scaling-stroke" class="peak-ticks" d="`)
 	peaks := append([]PeakMark(nil), p.Peaks...)
@@ -311,28 +313,33 @@ func (p *Pattern) countsAt(t float64) float64 {
 	return p.Counts[i-1] + f*(p.Counts[i]-p.Counts[i-1])
 }
 
+// legend writes the key at the top right, laid out from its right end; the
+// width of a label is estimated at 6.6 px a character (11 px system font).
 func (pp *PatternPlot) legend(w *svg, p *Pattern) {
-	x := patternRight - 430.0
-	y := 14.0
-	w.raw(`<g class="legend" font-size="11" fill="#1f2933">`)
-	item := func(sample, label string) {
-		w.raw(`<g transform="translate(`)
-		w.num(x, 0)
-		w.raw(" ")
-		w.num(y, 0)
-		w.raw(`)">` + sample + `<text x="26" y="4">`)
-		w.text(label)
-		w.raw("</text></g>")
-		x += 26 + 7*float64(len(label)) + 14
-	}
-	item(`<path d="M0 0h20" stroke="#000"/>`, "counts")
+	type item struct{ sample, label string }
+	items := []item{{`<path d="M0 0h20" stroke="#000"/>`, "counts"}}
 	if p.Background != nil {
-		item(`<path d="M0 0h20" stroke="#0072B2" stroke-width="1.2" stroke-dasharray="5 3"/>`, "background")
+		items = append(items, item{`<path d="M0 0h20" stroke="#0072B2" stroke-width="1.2" stroke-dasharray="5 3"/>`, "background"})
 	}
 	if p.Fit != nil {
-		item(`<path d="M0 0h20" stroke="#009E73" stroke-width="1.4"/>`, "fit")
+		items = append(items, item{`<path d="M0 0h20" stroke="#009E73" stroke-width="2.6" stroke-opacity=".75"/>`, "fit"})
 	}
-	item(`<path d="M10 6V-6" stroke="#1f2933" stroke-width="1.2"/>`, "indexed peak")
-	item(`<path d="M5-4h10L10 6Z" fill="#fff" stroke="#D55E00" stroke-width="1.6"/>`, "unexplained")
+	items = append(items,
+		item{`<path d="M10 6V-6" stroke="#1f2933" stroke-width="1.2"/>`, "indexed peak"},
+		item{`<path d="M5-4h10L10 6Z" fill="#fff" stroke="#D55E00" stroke-width="1.6"/>`, "unexplained peak"})
+	width := func(it item) float64 { return 26 + 6.6*float64(len([]rune(it.label))) + 16 }
+	x := patternRight
+	for _, it := range items {
+		x -= width(it)
+	}
+	w.raw(`<g class="legend" font-size="11" fill="#1f2933">`)
+	for _, it := range items {
+		w.raw(`<g transform="translate(`)
+		w.num(x, 0)
+		w.raw(` 16)">` + it.sample + `<text x="26" y="4">`)
+		w.text(it.label)
+		w.raw("</text></g>")
+		x += width(it)
+	}
 	w.raw("</g>")
 }

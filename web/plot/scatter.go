@@ -3,6 +3,7 @@ package plot
 import (
 	"math"
 	"strconv"
+	"strings"
 )
 
 // Axis describes one axis of a scatter plot.
@@ -40,7 +41,7 @@ type Scatter struct {
 
 // Geometry of scatter plots in SVG pixels.
 const (
-	scatterWidth  = 760.0
+	scatterWidth  = 800.0
 	scatterHeight = 430.0
 	scatterLeft   = 72.0
 	scatterRight  = 560.0 // right end of the plotting area; the legend sits beyond
@@ -182,7 +183,7 @@ func (p *Scatter) SVG() []byte {
 		if counts[c] == 0 {
 			continue
 		}
-		w.raw(`<g data-o="` + c.Slug() + `">`)
+		w.raw(`<g data-o="` + c.Slug() + `" aria-label="` + c.Label() + `">`)
 		for _, i := range byClass[c] {
 			m := &p.Markers[i]
 			w.use(c, x.pixel(m.X), y.pixel(m.Y))
@@ -196,13 +197,18 @@ func (p *Scatter) SVG() []byte {
 	}
 	w.raw("</g>")
 	h := w.legend(scatterRight+24, scatterTop+8, counts)
-	for i, line := range p.Notes {
-		w.raw(`<text font-size="11" fill="#3b4450"`)
-		w.numAttr("x", scatterRight+18, 0)
-		w.numAttr("y", scatterTop+h+24+float64(i)*15, 0)
-		w.raw(">")
-		w.text(line)
-		w.raw("</text>")
+	// Notes go one clause a line ("; " separates clauses) beside the plot.
+	row := 0
+	for _, note := range p.Notes {
+		for _, line := range strings.Split(note, "; ") {
+			w.raw(`<text font-size="11" fill="#3b4450"`)
+			w.numAttr("x", scatterRight+18, 0)
+			w.numAttr("y", scatterTop+h+24+float64(row)*15, 0)
+			w.raw(">")
+			w.text(line)
+			w.raw("</text>")
+			row++
+		}
 	}
 	w.raw("</svg>")
 	return w.b

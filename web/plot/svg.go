@@ -125,6 +125,16 @@ var shapePath = map[Shape]string{
 	ShapeCross:  "M-4-4L4 4M-4 4L4-4",
 }
 
+// MarkerPath returns a class's marker as an SVG <path> centred on (0, 0),
+// for drawing it outside a figure (tables, legends in HTML).
+func MarkerPath(c Class) string {
+	st := classStyles[c]
+	if st.shape == ShapeCross {
+		return `<path d="` + shapePath[st.shape] + `" fill="none" stroke="` + st.colour + `" stroke-width="1.6"/>`
+	}
+	return `<path d="` + shapePath[st.shape] + `" fill="` + st.colour + `"/>`
+}
+
 // use writes a marker of class c at (x, y), rounded to whole pixels: half a
 // pixel is 0.09 at.% on a composition map, finer than any measured
 // composition, and it keeps a map of 10 000 samples small.

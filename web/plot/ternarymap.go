@@ -56,7 +56,7 @@ func (m *TernaryMap) SVG() []byte {
 	w.markerDefs()
 	w.raw(`<rect width="100%" height="100%" fill="#fff"/>`)
 	m.grid(w)
-	m.isolines(w)
+	m.isolines(w, newOccupancy(m.Markers))
 	m.frame(w)
 	counts := m.markers(w)
 
@@ -158,7 +158,7 @@ func (m *TernaryMap) frame(w *svg) {
 	w.raw(`>at.%</text>`)
 }
 
-func (m *TernaryMap) isolines(w *svg) {
+func (m *TernaryMap) isolines(w *svg, occ *occupancy) {
 	if len(m.Isolines) == 0 {
 		return
 	}
@@ -187,7 +187,7 @@ func (m *TernaryMap) isolines(w *svg) {
 	}
 	w.raw(`</g><g class="iso-labels" font-size="11" fill="#2f3740" stroke="#fff" stroke-width="3" paint-order="stroke" text-anchor="middle">`)
 	for _, iso := range m.Isolines {
-		x, y, angle, ok := labelPlace(iso.Lines)
+		x, y, angle, ok := labelPlace(iso.Lines, occ)
 		if !ok {
 			continue
 		}
@@ -207,9 +207,10 @@ func (m *TernaryMap) isolines(w *svg) {
 	w.raw("</g>")
 }
 
-// labelPlace finds the middle (by length) of the longest polyline, in
-// pixels, and the direction of the line there, turned to read left to right.
-func labelPlace(lines [][]Ternary) (x, y, angleDeg float64, ok bool) {
+// labelPlace puts a label on the longest polyline, in pixels, turned to
+// read left to right: of eleven places spread along its middle 80 %, the one
+// with fewest markers near it, and of equals the one nearest the middle.
+func labelPlace(lines [][]Ternary, occ *occupancy) (x, y, angleDeg float64, ok bool) {
 	var best []Ternary
 	bestLen := 0.0
 	for _, line := range lines {
@@ -220,18 +221,33 @@ func labelPlace(lines [][]Ternary) (x, y, angleDeg float64, ok bool) {
 	if bestLen < 40 {
 		return 0, 0, 0, false
 	}
-	half := bestLen / 2
-	for i := 1; i < len(best); i++ {
-		x0, y0 := MapPixel(best[i-1])
-		x1, y1 := MapPixel(best[i])
+	bestScore := math.MaxInt
+	bestOff := math.Inf(1)
+	for k := 0; k <= 10; k++ {
+		f := 0.1 + 0.08*float64(k)
+		px, py, a := pointAlong(best, f*bestLen)
+		score := occ.near(px, py)
+		if off := math.Abs(f - 0.5); score < bestScore || score == bestScore && off < bestOff {
+			x, y, angleDeg, bestScore, bestOff = px, py, a, score, off
+		}
+	}
+	return x, y, angleDeg, true
+}
+
+// pointAlong returns the pixel point at distance along a polyline and the
+// line's direction there, turned to read left to right.
+func pointAlong(line []Ternary, along float64) (x, y, angleDeg float64) {
+	for i := 1; i < len(line); i++ {
+		x0, y0 := MapPixel(line[i-1])
+		x1, y1 := MapPixel(line[i])
 		d := math.Hypot(x1-x0, y1-y0)
-		if d < half && i < len(best)-1 {
-			half -= d
+		if d < along && i < len(line)-1 {
+			along -= d
 			continue
 		}
 		t := 0.0
 		if d > 0 {
-			t = math.Min(half/d, 1)
+			t = math.Min(along/d, 1)
 		}
 		angleDeg = math.Atan2(y1-y0, x1-x0) * 180 / math.Pi
 		if angleDeg > 90 {
@@ -239,9 +255,45 @@ func labelPlace(lines [][]Ternary) (x, y, angleDeg float64, ok bool) {
 		} else if angleDeg < -90 {
 			angleDeg += 180
 		}
-		return x0 + t*(x1-x0), y0 + t*(y1-y0), angleDeg, true
+		return x0 + t*(x1-x0), y0 + t*(y1-y0), angleDeg
 	}
-	return 0, 0, 0, false
+	x, y = MapPixel(line[0])
+	return x, y, 0
+}
+
+// occupancy counts markers in square cells of the map, to find room for
+// labels.
+type occupancy struct {
+	cols, rows int
+	count      []int
+}
+
+const occupancyCell = 16.0 // pixels
+
+func newOccupancy(markers []TernaryMarker) *occupancy {
+	o := &occupancy{cols: int(math.Ceil(mapWidth / occupancyCell)), rows: int(math.Ceil(mapHeight / occupancyCell))}
+	o.count = make([]int, o.cols*o.rows)
+	for _, m := range markers {
+		x, y := MapPixel(m.Point)
+		if c, r := int(x/occupancyCell), int(y/occupancyCell); c >= 0 && c < o.cols && r >= 0 && r < o.rows {
+			o.count[r*o.cols+c]++
+		}
+	}
+	return o
+}
+
+// near counts the markers in the cell of (x, y) and the eight around it.
+func (o *occupancy) near(x, y float64) int {
+	c0, r0 := int(x/occupancyCell), int(y/occupancyCell)
+	n := 0
+	for r := r0 - 1; r <= r0+1; r++ {
+		for c := c0 - 1; c <= c0+1; c++ {
+			if c >= 0 && c < o.cols && r >= 0 && r < o.rows {
+				n += o.count[r*o.cols+c]
+			}
+		}
+	}
+	return n
 }
 
 func pixelLength(line []Ternary) float64 {
@@ -269,7 +321,7 @@ func (m *TernaryMap) markers(w *svg) map[Class]int {
 		if len(idx) == 0 {
 			continue
 		}
-		w.raw(`<g data-o="` + c.Slug() + `">`)
+		w.raw(`<g data-o="` + c.Slug() + `" aria-label="` + c.Label() + `">`)
 		for _, i := range idx {
 			mk := &m.Markers[i]
 			x, y := MapPixel(mk.Point)

@@ -1,0 +1,586 @@
+package web
+
+import (
+	"fmt"
+	"html/template"
+	"math"
+	"net/http"
+	"net/url"
+	"sort"
+	"strconv"
+	"strings"
+
+	"meltbook"
+	"meltbook/analysis/element"
+	"meltbook/web/plot"
+)
+
+// mapGridDivisions is the isoline grid: 48 divisions per side, about
+// 2 at.% per cell, fine enough for curved fields and cheap to compute.
+const mapGridDivisions = 48
+
+// mapControls are the map settings as typed, with a message per field
+// that is wrong. Field names are the query parameters.
+type mapControls struct {
+	A, B, C   string
+	Scheme    string
+	RateMin   string // K/s
+	RateMax   string
+	Treatment string // "", "as-spun" or "annealed"
+	Outside   string // largest share outside the corners, at.%
+	EAStep    string // spacing of e/a lines; empty for automatic
+	Errors    map[string]string
+}
+
+func (c *mapControls) fail(field, format string, args ...any) {
+	if c.Errors == nil {
+		c.Errors = map[string]string{}
+	}
+	if _, ok := c.Errors[field]; !ok {
+		c.Errors[field] = fmt.Sprintf(format, args...)
+	}
+}
+
+// firstError returns one field error as a *meltbook.Error, in form order.
+func (c *mapControls) firstError() error {
+	for _, f := range []string{"a", "b", "c", "scheme", "treatment", "rate-min", "rate-max", "outside", "ea-step"} {
+		if m, ok := c.Errors[f]; ok {
+			return meltbook.Errorf(meltbook.Invalid, f, "%s", m)
+		}
+	}
+	return nil
+}
+
+// sampleFilter is the parsed selection shared by the composition and
+// descriptor maps.
+type sampleFilter struct {
+	scheme      *element.Scheme
+	treatment   string
+	rateLo      float64 // K/s; 0 for none
+	rateHi      float64 // K/s; +Inf for none
+	rateLimited bool
+	outside     float64 // fraction
+	eaStep      float64 // 0 for automatic
+	triangle    plot.Triangle
+	hasTriangle bool
+}
+
+// readControls parses the settings common to both kinds of map; corners
+// are read only when withCorners is set.
+func (s *Server) readControls(q url.Values, samples []MapSample, withCorners bool) (mapControls, sampleFilter) {
+	c := mapControls{
+		A: q.Get("a"), B: q.Get("b"), C: q.Get("c"),
+		Scheme: q.Get("scheme"), RateMin: q.Get("rate-min"), RateMax: q.Get("rate-max"),
+		Treatment: q.Get("treatment"), Outside: q.Get("outside"), EAStep: q.Get("ea-step"),
+	}
+	f := sampleFilter{rateHi: math.Inf(1), outside: plot.DefaultMaxIgnored}
+
+	if len(s.cfg.Schemes) > 0 {
+		f.scheme = &s.cfg.Schemes[0]
+		if c.Scheme != "" {
+			f.scheme = nil
+			for i := range s.cfg.Schemes {
+				if s.cfg.Schemes[i].Name == c.Scheme {
+					f.scheme = &s.cfg.Schemes[i]
+				}
+			}
+			if f.scheme == nil {
+				c.fail("scheme", "%q is not a valence scheme here", c.Scheme)
+			}
+		}
+		if f.scheme != nil {
+			c.Scheme = f.scheme.Name
+		}
+	}
+	switch c.Treatment {
+	case "", "as-spun", "annealed":
+		f.treatment = c.Treatment
+	default:
+		c.fail("treatment", "choose as-spun, annealed or both")
+	}
+	readRate := func(field, typed string) (float64, bool) {
+		typed = strings.TrimSpace(typed)
+		if typed == "" {
+			return 0, false
+		}
+		v, err := strconv.ParseFloat(typed, 64)
+		if err != nil || !(v > 0) || math.IsInf(v, 0) {
+			c.fail(field, "write a positive number of K/s, e.g. 1e5")
+			return 0, false
+		}
+		return v, true
+	}
+	if v, ok := readRate("rate-min", c.RateMin); ok {
+		f.rateLo, f.rateLimited = v, true
+	}
+	if v, ok := readRate("rate-max", c.RateMax); ok {
+		f.rateHi, f.rateLimited = v, true
+	}
+	if f.rateLo > f.rateHi {
+		c.fail("rate-max", "the upper end is below the lower one")
+	}
+	if t := strings.TrimSpace(c.Outside); t != "" {
+		v, err := strconv.ParseFloat(t, 64)
+		if err != nil || v < 0 || v > 100 {
+			c.fail("outside", "write a share between 0 and 100 at.%%")
+		} else {
+			f.outside = v / 100
+		}
+	} else {
+		c.Outside = strconv.FormatFloat(100*plot.DefaultMaxIgnored, 'f', -1, 64)
+	}
+	if t := strings.TrimSpace(c.EAStep); t != "" {
+		v, err := strconv.ParseFloat(t, 64)
+		if err != nil || !(v >= 0.005) || v > 10 {
+			c.fail("ea-step", "write a spacing between 0.005 and 10, or leave it empty")
+		} else {
+			f.eaStep = v
+		}
+	}
+	if !withCorners {
+		return c, f
+	}
+	if c.A == "" && c.B == "" && c.C == "" {
+		corners := commonElements(samples, 3)
+		if len(corners) < 3 {
+			c.fail("a", "the notebook holds fewer than three elements; a ternary map needs three corners")
+			return c, f
+		}
+		c.A, c.B, c.C = corners[0], corners[1], corners[2]
+	}
+	var corners [3]plot.Corner
+	ok := true
+	for i, typed := range []string{c.A, c.B, c.C} {
+		field := string(rune('a' + i))
+		corner, err := plot.ParseCorner(typed)
+		if err != nil {
+			c.fail(field, "%v", err)
+			ok = false
+			continue
+		}
+		for _, e := range corner.Elements {
+			if _, known := element.BySymbol(e); !known {
+				c.fail(field, "%s is not an element", e)
+				ok = false
+			}
+		}
+		corners[i] = corner
+	}
+	if ok {
+		tri, err := plot.NewTriangle(corners[0], corners[1], corners[2])
+		if err != nil {
+			c.fail("c", "%v", err)
+		} else {
+			f.triangle, f.hasTriangle = tri, true
+		}
+	}
+	return c, f
+}
+
+// commonElements returns the n elements with the largest summed fraction
+// over the samples, most common first.
+func commonElements(samples []MapSample, n int) []string {
+	sum := map[string]float64{}
+	for _, m := range samples {
+		for _, ef := range m.Composition {
+			sum[ef.Element] += ef.Fraction
+		}
+	}
+	names := make([]string, 0, len(sum))
+	for e := range sum {
+		names = append(names, e)
+	}
+	sort.Slice(names, func(i, j int) bool {
+		if sum[names[i]] != sum[names[j]] {
+			return sum[names[i]] > sum[names[j]]
+		}
+		return names[i] < names[j]
+	})
+	if len(names) > n {
+		names = names[:n]
+	}
+	return names
+}
+
+// selectCounts says why samples are not on a map.
+type selectCounts struct {
+	Total        int `json:"total"`
+	Shown        int `json:"shown"`
+	Treatment    int `json:"other_treatment"`
+	NoRate       int `json:"no_cooling_rate"`
+	OutsideRange int `json:"cooling_rate_outside_range"`
+	NoCorner     int `json:"no_corner_element"`
+	Outside      int `json:"too_much_outside_corners"`
+}
+
+// keep applies the treatment and cooling-rate filters.
+func (f *sampleFilter) keep(m *MapSample, n *selectCounts) bool {
+	switch {
+	case f.treatment == "as-spun" && m.Annealed, f.treatment == "annealed" && !m.Annealed:
+		n.Treatment++
+		return false
+	}
+	if f.rateLimited {
+		if m.CoolingRateKPerS == nil {
+			n.NoRate++
+			return false
+		}
+		if r := *m.CoolingRateKPerS; r < f.rateLo || r > f.rateHi {
+			n.OutsideRange++
+			return false
+		}
+	}
+	return true
+}
+
+func (f *sampleFilter) ea(comp []meltbook.ElementFraction) float64 {
+	if f.scheme == nil {
+		return math.NaN()
+	}
+	v, err := plot.ElectronsPerAtom(comp, f.scheme.Valence)
+	if err != nil {
+		return math.NaN()
+	}
+	return v
+}
+
+// mapPoint is one sample on the composition map, as /api/map gives it.
+type mapPoint struct {
+	Code        string                     `json:"code"`
+	Melt        string                     `json:"melt"`
+	Class       string                     `json:"class"`
+	Ternary     plot.Ternary               `json:"ternary"`
+	Ignored     float64                    `json:"ignored"`
+	EA          *float64                   `json:"ea"`
+	Composition []meltbook.ElementFraction `json:"composition"`
+	Measured    bool                       `json:"measured"`
+}
+
+// compositionMapData is a composition map worked out: the page, the SVG
+// download and /api/map all come from it.
+type compositionMapData struct {
+	Controls       mapControls                   `json:"-"`
+	Corners        [3]string                     `json:"corners"`
+	Scheme         string                        `json:"scheme,omitempty"`
+	ShareRule      plot.ShareRule                `json:"share_rule"`
+	Shares         [3][]meltbook.ElementFraction `json:"shares"`
+	CornerValences *[3]float64                   `json:"corner_valences,omitempty"`
+	// LinesNote says why there are no e/a lines, when there are none.
+	LinesNote string         `json:"lines_note,omitempty"`
+	Counts    selectCounts   `json:"counts"`
+	Points    []mapPoint     `json:"points"`
+	Isolines  []plot.Isoline `json:"isolines"`
+	markers   []plot.TernaryMarker
+	notes     []string
+	title     string
+}
+
+// buildCompositionMap reads the request's settings and places the samples.
+// When a setting is wrong the data carry the messages and no map.
+func (s *Server) buildCompositionMap(r *http.Request) (*compositionMapData, error) {
+	samples, err := s.nb.MapSamples(r.Context())
+	if err != nil {
+		return nil, err
+	}
+	c, f := s.readControls(r.URL.Query(), samples, true)
+	d := &compositionMapData{Controls: c, Points: []mapPoint{}, Isolines: []plot.Isoline{}}
+	if len(c.Errors) > 0 {
+		return d, nil
+	}
+	tri := f.triangle
+	d.Corners = tri.Labels()
+	d.title = strings.Join(d.Corners[:], "–")
+	d.Counts.Total = len(samples)
+	var shown [][]meltbook.ElementFraction
+	eaMin, eaMax := math.Inf(1), math.Inf(-1)
+	for i := range samples {
+		m := &samples[i]
+		if !f.keep(m, &d.Counts) {
+			continue
+		}
+		proj, err := tri.Project(m.Composition)
+		if err != nil {
+			d.Counts.NoCorner++
+			continue
+		}
+		if proj.Ignored > f.outside+1e-12 {
+			d.Counts.Outside++
+			continue
+		}
+		ea := f.ea(m.Composition)
+		class := plot.ClassOf(m.Outcomes)
+		pt := mapPoint{Code: m.Code, Melt: m.Melt, Class: class.Slug(), Ternary: proj.Point, Ignored: proj.Ignored, Composition: m.Composition, Measured: m.Measured}
+		if finite(ea) {
+			pt.EA = &ea
+			eaMin, eaMax = math.Min(eaMin, ea), math.Max(eaMax, ea)
+		}
+		d.Points = append(d.Points, pt)
+		d.markers = append(d.markers, plot.TernaryMarker{Point: proj.Point, Class: class, Code: m.Code, Composition: plot.FormatComposition(m.Composition), ElectronsPerAtom: ea})
+		shown = append(shown, m.Composition)
+	}
+	d.Counts.Shown = len(d.Points)
+
+	shares := tri.GroupShares(plot.PooledShares, shown)
+	d.ShareRule, d.Shares = shares.Rule, shares.Corner
+	switch {
+	case f.scheme == nil:
+		d.LinesNote = "no valence scheme is set up, so there are no e/a lines"
+	default:
+		d.Scheme = f.scheme.Name
+		cv, err := shares.CornerValences(f.scheme.Valence)
+		if err != nil {
+			d.LinesNote = "no e/a lines: " + err.Error()
+			break
+		}
+		d.CornerValences = &cv
+		d.Isolines = electronLines(cv, eaMin, eaMax, f.eaStep)
+	}
+	d.notes = d.svgNotes(f)
+	return d, nil
+}
+
+// electronLines draws e/a isolines over the triangle. The levels span the
+// e/a of the samples shown (or the whole triangle when none has one) at a
+// round spacing, unless the user chose the spacing.
+func electronLines(cv [3]float64, lo, hi, step float64) []plot.Isoline {
+	triLo := math.Min(cv[0], math.Min(cv[1], cv[2]))
+	triHi := math.Max(cv[0], math.Max(cv[1], cv[2]))
+	if !(hi >= lo) {
+		lo, hi = triLo, triHi
+	}
+	var levels []float64
+	if step > 0 {
+		for k := math.Ceil(math.Max(lo, triLo)/step - 1e-9); ; k++ {
+			v := k * step
+			if v > math.Min(hi, triHi)+1e-9 || len(levels) >= 60 {
+				break
+			}
+			levels = append(levels, math.Round(v/step)*step)
+		}
+	} else {
+		if hi-lo < 0.1 {
+			lo, hi = lo-0.05, hi+0.05
+		}
+		// Lines just beyond the samples' range frame them.
+		ticks, st := plot.NiceTicks(lo, hi, 7)
+		step = st
+		for _, t := range ticks {
+			if t > triLo && t < triHi {
+				levels = append(levels, t)
+			}
+		}
+	}
+	g := plot.SampleField(mapGridDivisions, plot.ElectronField(cv))
+	lines := g.Contours(levels)
+	dec := plot.Decimals(step)
+	out := lines[:0]
+	for _, iso := range lines {
+		if len(iso.Lines) == 0 {
+			continue
+		}
+		iso.Label = strconv.FormatFloat(iso.Level, 'f', dec, 64)
+		out = append(out, iso)
+	}
+	return out
+}
+
+// svgNotes are the lines written into the figure so that a saved copy says
+// what it shows.
+func (d *compositionMapData) svgNotes(f sampleFilter) []string {
+	var notes []string
+	if d.Scheme != "" && len(d.Isolines) > 0 {
+		notes = append(notes, "dashed lines: e/a, "+d.Scheme)
+		if desc := (plot.Shares{Rule: d.ShareRule, Corner: d.Shares}).Describe(); desc != "" {
+			notes = append(notes, desc+" (pooled over the samples shown)")
+		}
+	} else if d.LinesNote != "" {
+		notes = append(notes, d.LinesNote)
+	}
+	if sel := f.describe(); sel != "" {
+		notes = append(notes, sel)
+	}
+	notes = append(notes, fmt.Sprintf("%d of %d samples shown", d.Counts.Shown, d.Counts.Total))
+	return notes
+}
+
+// describe says which samples the filter keeps, "" for all.
+func (f *sampleFilter) describe() string {
+	var parts []string
+	if f.treatment != "" {
+		parts = append(parts, f.treatment+" only")
+	}
+	switch {
+	case f.rateLimited && math.IsInf(f.rateHi, 1):
+		parts = append(parts, "cooling rate ≥ "+scientific(f.rateLo)+" K/s")
+	case f.rateLimited && f.rateLo == 0:
+		parts = append(parts, "cooling rate ≤ "+scientific(f.rateHi)+" K/s")
+	case f.rateLimited:
+		parts = append(parts, "cooling rate "+scientific(f.rateLo)+" to "+scientific(f.rateHi)+" K/s")
+	}
+	return strings.Join(parts, ", ")
+}
+
+func (d *compositionMapData) svg() []byte {
+	tri := plot.Triangle{}
+	for i, label := range d.Corners {
+		c, _ := plot.ParseCorner(label)
+		tri.Corners[i] = c
+	}
+	m := plot.TernaryMap{Triangle: tri, Title: d.title, Notes: d.notes, Markers: d.markers, Isolines: d.Isolines}
+	return m.SVG()
+}
+
+type mapPage struct {
+	Data     *compositionMapData
+	Controls mapControls
+	Schemes  []string
+	SVG      template.HTML
+	Download string
+	JSON     string
+	Classes  []classCount
+}
+
+func (s *Server) schemeNames() []string {
+	names := make([]string, len(s.cfg.Schemes))
+	for i, sc := range s.cfg.Schemes {
+		names[i] = sc.Name
+	}
+	return names
+}
+
+func (s *Server) compositionMap(w http.ResponseWriter, r *http.Request) {
+	d, err := s.buildCompositionMap(r)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	p := mapPage{Data: d, Controls: d.Controls, Schemes: s.schemeNames()}
+	if len(d.Controls.Errors) > 0 {
+		s.render(w, r, http.StatusBadRequest, "map", "Composition map", p)
+		return
+	}
+	// The SVG is built by plot from numbers and escaped text.
+	p.SVG = template.HTML(d.svg())
+	q := cloneValues(r.URL.Query())
+	q.Set("a", d.Controls.A)
+	q.Set("b", d.Controls.B)
+	q.Set("c", d.Controls.C)
+	p.Download = "/map.svg?" + q.Encode()
+	p.JSON = "/api/map?" + q.Encode()
+	counts := map[string]int{}
+	for _, pt := range d.Points {
+		counts[pt.Class]++
+	}
+	for _, c := range plot.Classes {
+		p.Classes = append(p.Classes, classCount{Class: c, Count: counts[c.Slug()]})
+	}
+	s.render(w, r, http.StatusOK, "map", "Composition map "+d.title, p)
+}
+
+func (s *Server) compositionMapSVG(w http.ResponseWriter, r *http.Request) {
+	d, err := s.buildCompositionMap(r)
+	if err == nil {
+		err = d.Controls.firstError()
+	}
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	name := strings.NewReplacer("(", "", ")", "", "+", "", "–", "-").Replace(d.title)
+	w.Header().Set("Content-Type", "image/svg+xml")
+	w.Header().Set("Content-Disposition", `attachment; filename="meltbook-map-`+name+`.svg"`)
+	w.Write([]byte(`<?xml version="1.0" encoding="UTF-8"?>` + "\n"))
+	w.Write(d.svg())
+}
+
+type descriptorPage struct {
+	Controls  mapControls
+	Schemes   []string
+	SizeSVG   template.HTML
+	SizeNote  string
+	RateSVG   template.HTML
+	RateNote  string
+	Selection string
+}
+
+// descriptorMaps draws e/a against δ and against cooling rate, with e/a on
+// the x axis of both so that the two plots line up.
+func (s *Server) descriptorMaps(w http.ResponseWriter, r *http.Request) {
+	samples, err := s.nb.MapSamples(r.Context())
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	c, f := s.readControls(r.URL.Query(), samples, false)
+	p := descriptorPage{Controls: c, Schemes: s.schemeNames()}
+	if len(c.Errors) > 0 {
+		s.render(w, r, http.StatusBadRequest, "descriptors", "Descriptor maps", p)
+		return
+	}
+	p.Selection = f.describe()
+	eaLabel := "e/a"
+	if f.scheme != nil {
+		eaLabel = "e/a (" + f.scheme.Name + ")"
+	}
+	size := plot.Scatter{Title: "Size mismatch δ against e/a", X: plot.Axis{Label: eaLabel}, Y: plot.Axis{Label: "δ (%)"}}
+	rate := plot.Scatter{Title: "Cooling rate against e/a", X: plot.Axis{Label: eaLabel}, Y: plot.Axis{Label: "cooling rate (K/s)", Log: true}}
+	var counts selectCounts
+	noEA, noDelta, noRate := 0, 0, 0
+	for i := range samples {
+		m := &samples[i]
+		if !f.keep(m, &counts) {
+			continue
+		}
+		counts.Shown++
+		ea := f.ea(m.Composition)
+		if !finite(ea) {
+			noEA++
+			continue
+		}
+		mk := plot.ScatterMarker{X: ea, Class: plot.ClassOf(m.Outcomes), Code: m.Code, Composition: plot.FormatComposition(m.Composition), ElectronsPerAtom: ea}
+		if s.cfg.SizeMismatch != nil {
+			if d, err := s.cfg.SizeMismatch(m.Composition); err == nil && finite(d) {
+				mk.Y, mk.Hover = d, "δ "+strconv.FormatFloat(d, 'f', 2, 64)+" %"
+				size.Markers = append(size.Markers, mk)
+			} else {
+				noDelta++
+			}
+		}
+		if m.CoolingRateKPerS != nil && *m.CoolingRateKPerS > 0 {
+			mk.Y, mk.Hover = *m.CoolingRateKPerS, scientific(*m.CoolingRateKPerS)+" K/s"
+			rate.Markers = append(rate.Markers, mk)
+		} else {
+			noRate++
+		}
+	}
+	missing := func(n int, what string) string {
+		if n == 0 {
+			return ""
+		}
+		return fmt.Sprintf("%d without %s", n, what)
+	}
+	join := func(parts ...string) string {
+		var keep []string
+		for _, p := range parts {
+			if p != "" {
+				keep = append(keep, p)
+			}
+		}
+		return strings.Join(keep, "; ")
+	}
+	eaMissing := missing(noEA, "e/a under this scheme")
+	if f.scheme == nil {
+		eaMissing = "no valence scheme is set up, so no sample has an e/a"
+	}
+	if s.cfg.SizeMismatch == nil {
+		p.SizeNote = "δ is not available in this server."
+	} else {
+		p.SizeNote = join(fmt.Sprintf("%d of %d samples", len(size.Markers), counts.Shown), eaMissing, missing(noDelta, "δ"))
+		size.Notes = []string{p.SizeNote}
+		p.SizeSVG = template.HTML(size.SVG())
+	}
+	p.RateNote = join(fmt.Sprintf("%d of %d samples", len(rate.Markers), counts.Shown), eaMissing, missing(noRate, "an estimated cooling rate"))
+	rate.Notes = []string{p.RateNote}
+	p.RateSVG = template.HTML(rate.SVG())
+	s.render(w, r, http.StatusOK, "descriptors", "Descriptor maps", p)
+}

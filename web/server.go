@@ -1,0 +1,227 @@
+package web
+
+import (
+	"context"
+	"crypto/rand"
+	"encoding/base64"
+	"errors"
+	"fmt"
+	"log/slog"
+	"net"
+	"net/http"
+	"net/url"
+	"os"
+	"strconv"
+	"sync"
+	"time"
+
+	"github.com/go-chi/chi/v5"
+	"github.com/go-chi/chi/v5/middleware"
+
+	"meltbook"
+	"meltbook/analysis/element"
+)
+
+// Config is what a Server needs.
+type Config struct {
+	// Notebook is the store behind the pages; required.
+	Notebook Notebook
+	// Schemes are the valence schemes offered for e/a; the first is the
+	// default. Without any, maps show no e/a.
+	Schemes []element.Scheme
+	// SizeMismatch computes the atomic size mismatch δ in percent of a
+	// composition for the e/a-δ map; nil leaves that map out.
+	SizeMismatch func([]meltbook.ElementFraction) (float64, error)
+	// Token, when set, must accompany every request (see the package
+	// documentation). When empty, Listen makes one for any address that is
+	// not a loopback address.
+	Token string
+	// Author fills the author field of new notes, e.g. the user's login.
+	Author string
+	// MaxBodyBytes caps the body of any request; default 1 MiB.
+	MaxBodyBytes int64
+	// Log receives internal errors; nil means slog.Default().
+	Log *slog.Logger
+}
+
+// DefaultMaxBodyBytes is the body limit when Config.MaxBodyBytes is zero.
+const DefaultMaxBodyBytes = 1 << 20
+
+// Server serves the notebook's pages and JSON API.
+type Server struct {
+	cfg     Config
+	nb      Notebook
+	log     *slog.Logger
+	csrfKey []byte
+	pages   *pages
+	router  chi.Router
+
+	mu sync.Mutex
+	// token and loopbackHosts are fixed before serving starts.
+	token         string
+	loopbackHosts map[string]bool
+	http          *http.Server
+}
+
+// NewServer builds a server on cfg. It fails when cfg has no notebook.
+func NewServer(cfg Config) (*Server, error) {
+	if cfg.Notebook == nil {
+		return nil, errors.New("web: no notebook to serve")
+	}
+	if cfg.MaxBodyBytes <= 0 {
+		cfg.MaxBodyBytes = DefaultMaxBodyBytes
+	}
+	s := &Server{cfg: cfg, nb: cfg.Notebook, log: cfg.Log, token: cfg.Token}
+	if s.log == nil {
+		s.log = slog.Default()
+	}
+	s.csrfKey = make([]byte, 32)
+	rand.Read(s.csrfKey)
+	p, err := loadPages()
+	if err != nil {
+		return nil, err
+	}
+	s.pages = p
+	s.router = s.routes()
+	return s, nil
+}
+
+// ServeHTTP serves one request.
+func (s *Server) ServeHTTP(w http.ResponseWriter, r *http.Request) { s.router.ServeHTTP(w, r) }
+
+func (s *Server) routes() chi.Router {
+	r := chi.NewRouter()
+	r.Use(middleware.Recoverer)
+	r.Use(s.securityHeaders)
+	r.Use(s.checkHost)
+	r.Use(s.requireToken)
+	r.Use(s.limitBody)
+	r.Use(middleware.Compress(5, "text/html", "text/css", "text/csv", "text/javascript", "application/json", "image/svg+xml"))
+	r.Use(s.csrf)
+	r.NotFound(func(w http.ResponseWriter, r *http.Request) {
+		s.fail(w, r, meltbook.Errorf(meltbook.NotFound, "", "There is no page at %s.", r.URL.Path))
+	})
+	r.MethodNotAllowed(func(w http.ResponseWriter, r *http.Request) {
+		s.fail(w, r, meltbook.Errorf(kindMethodNotAllowed, "", "%s is not possible at %s.", r.Method, r.URL.Path))
+	})
+
+	r.Get("/static/{name}", s.serveAsset)
+	r.Get("/", s.overview)
+	r.Get("/runs", s.runs)
+	r.Get("/runs.csv", s.runsCSV)
+	r.Get("/runs/{code}", s.run)
+	r.Post("/runs/{code}/notes", s.addNote)
+	r.Get("/scans/{id}", s.scan)
+	r.Get("/map", s.compositionMap)
+	r.Get("/map.svg", s.compositionMapSVG)
+	r.Get("/descriptors", s.descriptorMaps)
+
+	r.Route("/api", func(r chi.Router) {
+		r.Get("/summary", s.apiSummary)
+		r.Get("/filters", s.apiFilters)
+		r.Get("/runs", s.apiRuns)
+		r.Get("/find", s.apiFind)
+		r.Get("/runs/{code}", s.apiRun)
+		r.Get("/scans/{id}", s.apiScan)
+		r.Get("/map", s.apiMap)
+	})
+	return r
+}
+
+// Token returns the access token requests must carry, "" when none is
+// needed.
+func (s *Server) Token() string {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.token
+}
+
+// Listen binds addr and serves in the background until Shutdown. An empty
+// addr means 127.0.0.1 on a free port, and port 0 always picks a free one.
+// On an address that is not loopback an access token is required: the one
+// in Config, else a new random one. It returns the URL to open, carrying
+// the token when one is needed.
+func (s *Server) Listen(addr string) (string, error) {
+	if addr == "" {
+		addr = "127.0.0.1:0"
+	}
+	host, _, err := net.SplitHostPort(addr)
+	if err != nil {
+		return "", meltbook.Errorf(meltbook.Invalid, "address", "%q is not host:port (%v)", addr, err)
+	}
+	ln, err := net.Listen("tcp", addr)
+	if err != nil {
+		return "", fmt.Errorf("listen on %s: %w", addr, err)
+	}
+	port := strconv.Itoa(ln.Addr().(*net.TCPAddr).Port)
+
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.http != nil {
+		ln.Close()
+		return "", errors.New("web: server is already listening")
+	}
+	urlHost := host
+	if isLoopback(host) {
+		if s.token == "" {
+			// Without a token, only names of this machine may reach the
+			// pages, so that another site cannot rebind its own name to
+			// 127.0.0.1 and read the notebook through a visitor's browser.
+			s.loopbackHosts = map[string]bool{net.JoinHostPort(host, port): true}
+			for _, h := range []string{"127.0.0.1", "localhost", "::1"} {
+				s.loopbackHosts[net.JoinHostPort(h, port)] = true
+			}
+		}
+	} else if s.token == "" {
+		s.token = newToken()
+	}
+	if ip := net.ParseIP(host); host == "" || ip != nil && ip.IsUnspecified() {
+		if name, err := os.Hostname(); err == nil {
+			urlHost = name
+		}
+	}
+	u := url.URL{Scheme: "http", Host: net.JoinHostPort(urlHost, port), Path: "/"}
+	if s.token != "" {
+		u.RawQuery = url.Values{tokenParam: {s.token}}.Encode()
+	}
+	s.http = &http.Server{
+		Handler:           s,
+		ReadHeaderTimeout: 10 * time.Second,
+		ReadTimeout:       2 * time.Minute,
+		WriteTimeout:      2 * time.Minute,
+		IdleTimeout:       2 * time.Minute,
+		MaxHeaderBytes:    64 << 10,
+	}
+	go func(hs *http.Server) {
+		if err := hs.Serve(ln); err != nil && !errors.Is(err, http.ErrServerClosed) {
+			s.log.Error("web server stopped", "err", err)
+		}
+	}(s.http)
+	return u.String(), nil
+}
+
+// Shutdown stops serving, letting requests in flight finish until ctx ends.
+func (s *Server) Shutdown(ctx context.Context) error {
+	s.mu.Lock()
+	hs := s.http
+	s.mu.Unlock()
+	if hs == nil {
+		return nil
+	}
+	return hs.Shutdown(ctx)
+}
+
+func isLoopback(host string) bool {
+	if host == "localhost" {
+		return true
+	}
+	ip := net.ParseIP(host)
+	return ip != nil && ip.IsLoopback()
+}
+
+// newToken returns 32 random bytes in URL-safe base64.
+func newToken() string {
+	b := make([]byte, 32)
+	rand.Read(b)
+	return base64.RawURLEncoding.EncodeToString(b)
+}
