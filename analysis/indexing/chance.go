@@ -1,0 +1,183 @@
+package indexing
+
+import (
+	"fmt"
+	"hash/fnv"
+	"math"
+	"math/rand/v2"
+	"runtime"
+	"sort"
+	"sync"
+)
+
+// Sizes of the random-list calibration: every chance first uses the first
+// nullSmall lists; a chance near the decision threshold uses nullLarge.
+const (
+	nullSmall = 256
+	nullLarge = 1024
+	// Empirical fractions are used when at least this many random lists
+	// scored as well; beyond that an exponential tail is fitted.
+	minExceed = 8
+	// Fewest random lists with any solution for a tail to be fitted.
+	minTail = 16
+	// Buckets of the 2θ range of the random lists, degrees.
+	rangeBucketDeg = 5
+)
+
+// nullKey identifies one null distribution: a model, a peak count, a 2θ
+// range bucket and the settings that change the score.
+type nullKey struct {
+	model   string
+	n       int
+	lo, hi  int   // 2θ range, degrees
+	lambda  int64 // wavelength, 1e-6 Å
+	tol     int64 // tolerance, 1e-6 degrees
+	maxZero int64 // zero-shift limit, 1e-6 degrees
+}
+
+func (k nullKey) seed() uint64 {
+	h := fnv.New64a()
+	fmt.Fprintf(h, "%+v", k)
+	return h.Sum64()
+}
+
+// nullDist holds the best scores of random lists, in generation order, and
+// sorted copies of the first nullSmall and nullLarge of them.
+type nullDist struct {
+	mu     sync.Mutex
+	scores []float64
+	sorted map[int][]float64 // size -> scores sorted descending
+}
+
+var nullCache sync.Map // nullKey -> *nullDist
+
+// rangeBucket widens the peaks' 2θ range to whole buckets.
+func rangeBucket(peaks []Peak) (lo, hi int) {
+	min, max := peaks[0].TwoThetaDeg, peaks[0].TwoThetaDeg
+	for _, p := range peaks {
+		min = math.Min(min, p.TwoThetaDeg)
+		max = math.Max(max, p.TwoThetaDeg)
+	}
+	lo = int(math.Floor(min/rangeBucketDeg)) * rangeBucketDeg
+	hi = int(math.Ceil(max/rangeBucketDeg)) * rangeBucketDeg
+	if hi <= lo {
+		hi = lo + rangeBucketDeg
+	}
+	if hi > 180 {
+		hi = 180
+	}
+	return lo, hi
+}
+
+// randomPeaks draws the i-th random list of a null distribution: n peaks
+// uniform in 2θ over [lo, hi] with uniform intensities, sorted by 2θ.
+func randomPeaks(key nullKey, i int) []Peak {
+	rng := rand.New(rand.NewPCG(key.seed(), uint64(i)))
+	peaks := make([]Peak, key.n)
+	for j := range peaks {
+		peaks[j] = Peak{
+			TwoThetaDeg: float64(key.lo) + rng.Float64()*float64(key.hi-key.lo),
+			Intensity:   1 + 99*rng.Float64(),
+		}
+	}
+	sort.Slice(peaks, func(a, b int) bool { return peaks[a].TwoThetaDeg < peaks[b].TwoThetaDeg })
+	return peaks
+}
+
+// nullScores returns the best scores of the first size random lists for
+// the model, sorted descending, computing and caching what is missing.
+func nullScores(m *model, key nullKey, cfg searchConfig, size int) []float64 {
+	v, _ := nullCache.LoadOrStore(key, &nullDist{sorted: map[int][]float64{}})
+	d := v.(*nullDist)
+	d.mu.Lock()
+	defer d.mu.Unlock()
+	if s, ok := d.sorted[size]; ok {
+		return s
+	}
+	start := len(d.scores)
+	d.scores = append(d.scores, make([]float64, size-start)...)
+	workers := runtime.GOMAXPROCS(0)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func(w int) {
+			defer wg.Done()
+			for i := start + w; i < size; i += workers {
+				if sol, ok := m.search(randomPeaks(key, i), cfg); ok {
+					d.scores[i] = sol.score
+				}
+			}
+		}(w)
+	}
+	wg.Wait()
+	s := append([]float64(nil), d.scores[:size]...)
+	sort.Sort(sort.Reverse(sort.Float64Slice(s)))
+	d.sorted[size] = s
+	return s
+}
+
+// tailChance estimates P(S_null ≥ s) from null scores sorted descending:
+// the empirical fraction when at least minExceed lists reach s, otherwise
+// an exponential tail fitted to the upper quarter of the lists that found
+// any solution at all (score > 0),
+//
+//	P(S ≥ s) ≈ (k/K) · exp(−(s − u)/θ),  u = k-th largest score, θ = mean excess over u
+//
+// with K lists in all, K₊ of them positive and k = K₊/4. With fewer than
+// minTail positive lists there is no tail to fit and the estimate is
+// (exceedances + 1)/(K + 1).
+//
+// Reference: common practice (peaks-over-threshold tail estimate).
+func tailChance(null []float64, s float64) (float64, string) {
+	k := len(null)
+	exceed := sort.Search(k, func(i int) bool { return null[i] < s })
+	if exceed >= minExceed {
+		return float64(exceed) / float64(k), fmt.Sprintf("%d of %d random lists scored as well", exceed, k)
+	}
+	positive := sort.Search(k, func(i int) bool { return null[i] <= 0 })
+	if positive < minTail {
+		return float64(exceed+1) / float64(k+1), fmt.Sprintf("%d of %d random lists scored as well", exceed, k)
+	}
+	top := positive / 4
+	u := null[top]
+	var mean float64
+	for _, v := range null[:top] {
+		mean += v - u
+	}
+	mean /= float64(top)
+	basis := fmt.Sprintf("%d of %d random lists scored as well; exponential tail fitted to the best %d", exceed, k, top)
+	if mean <= 0 {
+		return float64(exceed+1) / float64(k+1), basis
+	}
+	c := float64(top) / float64(k) * math.Exp(-(s-u)/mean)
+	return math.Min(c, 1), basis
+}
+
+// chance returns the probability that a random list scores at least s
+// with the model, for lists like peaks. When refine is true and the first
+// estimate lies near threshold, it is made again from more random lists.
+func chance(m *model, peaks []Peak, cfg searchConfig, s, threshold float64, refine bool) (float64, string) {
+	lo, hi := rangeBucket(peaks)
+	key := nullKey{
+		model:   m.id,
+		n:       len(peaks),
+		lo:      lo,
+		hi:      hi,
+		lambda:  int64(math.Round(cfg.lambda * 1e6)),
+		tol:     int64(math.Round(cfg.tol * 1e6)),
+		maxZero: int64(math.Round(cfg.maxZero * 1e6)),
+	}
+	c, basis := tailChance(nullScores(m, key, cfg, nullSmall), s)
+	if refine && c > threshold/10 && c < threshold*3 {
+		c, basis = tailChance(nullScores(m, key, cfg, nullLarge), s)
+	}
+	return c, basis
+}
+
+// sidak corrects a chance for the number of models of one kind tried:
+// 1 − (1 − c)^k.
+//
+// Reference: Z. Šidák, J. Am. Stat. Assoc. 62, 626 (1967).
+func sidak(c float64, k int) float64 {
+	return -math.Expm1(float64(k) * math.Log1p(-c))
+}

@@ -1,0 +1,292 @@
+package indexing
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"sync"
+
+	"meltbook/analysis/indexing/cubic"
+	"meltbook/analysis/indexing/icosa"
+)
+
+// Search ranges and scoring constants.
+const (
+	minQuasilatticeA = 3.9 // a_R search range, Å; spans the Al-, Ti-, Zn- and Cd-based i-phases
+	maxQuasilatticeA = 6.1
+	minCubicA        = 2.5 // general cubic search range, Å
+	maxCubicA        = 16.0
+	maxPeaks         = 200
+	residualFloorDeg = 0.02 // r₀: precision of a fitted peak position in 2θ
+	densityHalfDeg   = 5.0  // half width of the window for the local line density
+	anchorCount      = 5    // strongest peaks that propose scales
+	anchorPerp       = 0.30 // icosahedral families allowed to explain an anchor peak, |G⊥|·a6
+	refineCount      = 6    // candidates refined by least squares
+	// Approximant check: each of the strongest peaks of an approximant must
+	// lie within strongShift (relative, in q) of an icosahedral family with
+	// |G⊥|·a6 ≤ strongPerp, for the a_R the cubic constant implies.
+	strongPeaks = 3
+	strongShift = 0.02
+	strongPerp  = 0.35
+	// Families are enumerated once up to this |G∥|·a6 (Cu Kα to 2θ = 170°
+	// with a_R = 6.1 Å needs 11.0; Mo Kα to 60° at 6.1 Å needs 12.2).
+	maxFamilyParallel = 13.0
+	maxFamilyPerp     = 0.8
+)
+
+// line is one allowed powder line of a model, at q = g/scale.
+type line struct {
+	g    float64 // position in units of 1/scale (|G∥|·a6, or √S)
+	perp float64 // |G⊥|·a6 for icosahedral lines, 0 for cubic
+	ref  int     // index into the model's family or line table
+}
+
+// window is a range of scale in Å.
+type window struct{ lo, hi float64 }
+
+// model is one searchable set of lines: a kind, a lattice type, the lines
+// and the allowed range of the scale (a6 for icosahedral models, a for
+// cubic ones).
+type model struct {
+	kind    Kind
+	lattice string
+	id      string // names the model for the chance cache
+	lines   []line
+	gs      []float64 // lines' g, ascending
+	bins    []int32   // lookup table, see firstAtLeast
+	windows []window
+	// icosahedral tables
+	families []icosa.Family
+	// cubic tables
+	cubicLines []cubic.Line
+	// approximant windows: which reference and order each window belongs to
+	approx []approxWindow
+}
+
+var (
+	familyOnce  sync.Once
+	familyTable map[icosa.Lattice][]icosa.Family
+	cubicOnce   sync.Once
+	cubicTable  map[cubic.Lattice][]cubic.Line
+)
+
+func allFamilies(lat icosa.Lattice) []icosa.Family {
+	familyOnce.Do(func() {
+		familyTable = map[icosa.Lattice][]icosa.Family{}
+		for _, l := range icosa.Lattices {
+			familyTable[l] = icosa.Families(l, maxFamilyParallel, maxFamilyPerp)
+		}
+	})
+	return familyTable[lat]
+}
+
+// maxCubicS covers the largest approximant (3/2 of a_R = 6.1 Å, +10 %)
+// to q = 1/d = 2/λ at λ = 1.5 Å.
+const maxCubicS = 3600
+
+func allCubicLines(lat cubic.Lattice) []cubic.Line {
+	cubicOnce.Do(func() {
+		cubicTable = map[cubic.Lattice][]cubic.Line{}
+		for _, l := range cubic.Lattices {
+			cubicTable[l] = cubic.Lines(l, maxCubicS)
+		}
+	})
+	return cubicTable[lat]
+}
+
+func icosahedralID(lat icosa.Lattice, perpCutoff float64) string {
+	return fmt.Sprintf("icosahedral-%s-%.4f", lat, perpCutoff)
+}
+
+func newIcosahedralModel(lat icosa.Lattice, perpCutoff float64) *model {
+	m := &model{
+		kind:    Icosahedral,
+		lattice: lat.String(),
+		id:      icosahedralID(lat, perpCutoff),
+		windows: []window{{minQuasilatticeA * math.Sqrt2, maxQuasilatticeA * math.Sqrt2}},
+	}
+	m.families = allFamilies(lat)
+	for i, f := range m.families {
+		if f.Perp <= perpCutoff {
+			m.lines = append(m.lines, line{g: f.Parallel, perp: f.Perp, ref: i})
+		}
+	}
+	m.finish()
+	return m
+}
+
+func newCubicModel(kind Kind, lat cubic.Lattice, windows []window, approx []approxWindow) *model {
+	m := &model{kind: kind, lattice: lat.String(), windows: windows, approx: approx, id: newCubicID(kind, lat, windows)}
+	m.cubicLines = allCubicLines(lat)
+	for i, c := range m.cubicLines {
+		m.lines = append(m.lines, line{g: c.Sqrt(), ref: i})
+	}
+	m.finish()
+	return m
+}
+
+func newCubicID(kind Kind, lat cubic.Lattice, windows []window) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s-%s", kind, lat)
+	for _, w := range windows {
+		fmt.Fprintf(&b, "-%.4f:%.4f", w.lo, w.hi)
+	}
+	return b.String()
+}
+
+// approxID names the approximant windows' orders and references.
+func approxID(ws []approxWindow) string {
+	var b strings.Builder
+	for _, w := range ws {
+		fmt.Fprintf(&b, "|%s@%.4f", w.order, w.ideal)
+	}
+	return b.String()
+}
+
+func (m *model) finish() {
+	sort.Slice(m.lines, func(i, j int) bool { return m.lines[i].g < m.lines[j].g })
+	m.gs = make([]float64, len(m.lines))
+	for i, l := range m.lines {
+		m.gs[i] = l.g
+	}
+	// bins[b] is the first line with g ≥ b·binWidth.
+	nb := 1
+	if len(m.gs) > 0 {
+		nb = int(m.gs[len(m.gs)-1]/binWidth) + 2
+	}
+	m.bins = make([]int32, nb)
+	for b := range m.bins {
+		m.bins[b] = int32(lowerBound(m.gs, float64(b)*binWidth))
+	}
+}
+
+// inWindows reports whether scale a lies in one of the model's windows,
+// widened by the relative slack.
+func (m *model) inWindows(a, slack float64) bool {
+	for _, w := range m.windows {
+		if a >= w.lo*(1-slack) && a <= w.hi*(1+slack) {
+			return true
+		}
+	}
+	return false
+}
+
+// preparedPeak holds per-peak quantities at one zero shift, so that scoring
+// a scale costs only multiplications and binary searches.
+type preparedPeak struct {
+	q        float64 // 1/d at the corrected angle, Å⁻¹
+	qLo, qHi float64 // 1/d at the corrected angle ∓ tolerance
+	qWLo     float64 // 1/d at the edges of the density window
+	qWHi     float64
+	wDeg     float64 // width of the density window, degrees
+	dxdq     float64 // d(2θ)/dq in degrees per Å⁻¹
+}
+
+func qAt(twoThetaDeg, lambda float64) float64 {
+	return 2 * math.Sin(twoThetaDeg*math.Pi/360) / lambda
+}
+
+func prepare(peaks []Peak, lambda, zero, tol float64, out []preparedPeak) []preparedPeak {
+	out = out[:0]
+	for _, p := range peaks {
+		x := p.TwoThetaDeg - zero
+		lo := math.Max(x-densityHalfDeg, 0.5)
+		hi := math.Min(x+densityHalfDeg, 179.5)
+		theta := x * math.Pi / 360
+		out = append(out, preparedPeak{
+			q:    qAt(x, lambda),
+			qLo:  qAt(math.Max(x-tol, 0.01), lambda),
+			qHi:  qAt(math.Min(x+tol, 179.99), lambda),
+			qWLo: qAt(lo, lambda),
+			qWHi: qAt(hi, lambda),
+			wDeg: hi - lo,
+			dxdq: lambda / math.Cos(theta) * 180 / math.Pi,
+		})
+	}
+	return out
+}
+
+// match finds the line explaining a peak at scale a: among the lines within
+// tolerance, the lowest |G⊥| (icosahedral) or the nearest. It returns the
+// line index or -1, the residual in degrees (observed − calculated) and the
+// chance probability p of the match.
+func (m *model) match(pp *preparedPeak, a float64) (idx int, resid, p float64) {
+	gLo, gHi := pp.qLo*a, pp.qHi*a
+	j := m.firstAtLeast(gLo)
+	idx = -1
+	bestPerp, bestDist := math.Inf(1), math.Inf(1)
+	for ; j < len(m.gs) && m.gs[j] <= gHi; j++ {
+		dist := math.Abs(pp.q - m.gs[j]/a)
+		perp := m.lines[j].perp
+		if perp < bestPerp-1e-9 || (perp < bestPerp+1e-9 && dist < bestDist) {
+			idx, bestPerp, bestDist = j, perp, dist
+		}
+	}
+	if idx < 0 {
+		return -1, 0, 1
+	}
+	resid = (pp.q - m.gs[idx]/a) * pp.dxdq
+	count := float64(m.firstAtLeast(pp.qWHi*a) - m.firstAtLeast(pp.qWLo*a))
+	if count < 1 {
+		count = 1
+	}
+	p = 2 * math.Max(math.Abs(resid), residualFloorDeg) * count / pp.wDeg
+	if p > 1 {
+		p = 1
+	}
+	return idx, resid, p
+}
+
+// score returns S = Σ −ln p over the peaks and the number indexed.
+func (m *model) score(prep []preparedPeak, a float64) (s float64, n int) {
+	prod := 1.0
+	for i := range prep {
+		idx, _, p := m.match(&prep[i], a)
+		if idx >= 0 {
+			n++
+			prod *= p
+		}
+	}
+	return -math.Log(prod), n
+}
+
+// hits reports whether some line lies within tolerance of the peak at
+// scale a.
+func (m *model) hits(pp *preparedPeak, a float64) bool {
+	j := m.firstAtLeast(pp.qLo * a)
+	return j < len(m.gs) && m.gs[j] <= pp.qHi*a
+}
+
+// binWidth is the g step of the lookup table that replaces binary searches.
+const binWidth = 0.01
+
+// firstAtLeast returns the index of the first line with g ≥ v.
+func (m *model) firstAtLeast(v float64) int {
+	b := int(v / binWidth)
+	if b < 0 {
+		b = 0
+	}
+	if b >= len(m.bins) {
+		return len(m.gs)
+	}
+	j := int(m.bins[b])
+	for j < len(m.gs) && m.gs[j] < v {
+		j++
+	}
+	return j
+}
+
+// lowerBound returns the first index i with xs[i] ≥ v (len(xs) if none).
+func lowerBound(xs []float64, v float64) int {
+	lo, hi := 0, len(xs)
+	for lo < hi {
+		mid := int(uint(lo+hi) >> 1)
+		if xs[mid] < v {
+			lo = mid + 1
+		} else {
+			hi = mid
+		}
+	}
+	return lo
+}

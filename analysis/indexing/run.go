@@ -1,0 +1,266 @@
+package indexing
+
+import (
+	"math"
+	"sort"
+	"sync"
+
+	"meltbook/analysis/indexing/cubic"
+	"meltbook/analysis/indexing/icosa"
+)
+
+var modelCache sync.Map // model id -> *model
+
+func cachedModel(id string, build func() *model) *model {
+	if v, ok := modelCache.Load(id); ok {
+		return v.(*model)
+	}
+	v, _ := modelCache.LoadOrStore(id, build())
+	return v.(*model)
+}
+
+// models builds the models of one round: icosahedral, general cubic and
+// approximant windows around the references and the quasilattice
+// constants already found in the list.
+func models(opts Options, found []float64) []*model {
+	var out []*model
+	for _, lat := range icosa.Lattices {
+		out = append(out, cachedModel(icosahedralID(lat, opts.PerpCutoff), func() *model { return newIcosahedralModel(lat, opts.PerpCutoff) }))
+	}
+	general := []window{{minCubicA, maxCubicA}}
+	refs := append([]Reference(nil), opts.References...)
+	for _, aR := range found {
+		refs = append(refs, Reference{Name: "icosahedral phase in this list", QuasilatticeConstantA: aR})
+	}
+	aw := approximantWindows(refs, opts.ApproximantOrders, opts.ApproximantTolerance)
+	merged := mergedWindows(aw)
+	for _, lat := range cubic.Lattices {
+		out = append(out, cachedModel(newCubicID(Cubic, lat, general), func() *model { return newCubicModel(Cubic, lat, general, nil) }))
+	}
+	for _, lat := range approximantLattices {
+		out = append(out, cachedModel(newCubicID(Approximant, lat, merged)+approxID(aw), func() *model {
+			m := newCubicModel(Approximant, lat, merged, aw)
+			m.id += approxID(aw)
+			return m
+		}))
+	}
+	return out
+}
+
+// minIndexed is the fewest indexed peaks that make a phase of the kind.
+func minIndexed(k Kind) int {
+	if k == Icosahedral {
+		return 5
+	}
+	return 3
+}
+
+// approximantLattices are the cubic lattice types sought for approximants:
+// the known cubic approximants are primitive (α-AlMnSi, Pm-3) or
+// body-centred (Cd6Yb, Im-3).
+var approximantLattices = []cubic.Lattice{cubic.Primitive, cubic.BodyCentred}
+
+// latticesOfKind is the number of lattice types tried for the model's
+// kind, for the Šidák correction.
+func (m *model) latticesOfKind() int {
+	if m.kind == Approximant {
+		return len(approximantLattices)
+	}
+	return 3
+}
+
+type scored struct {
+	m      *model
+	sol    solution
+	chance float64
+	basis  string
+}
+
+func run(peaks []Peak, lambda float64, opts Options) Result {
+	cfg := searchConfig{lambda: lambda, tol: opts.ToleranceDeg, maxZero: opts.MaxZeroShiftDeg}
+	total := 0.0
+	for _, p := range peaks {
+		total += p.Intensity
+	}
+	res := Result{WavelengthA: lambda, Phases: []Phase{}, Unexplained: []Peak{}, Models: []ModelSummary{}}
+	remaining := peaks
+	var found []float64
+	for round := 0; round < opts.MaxPhases && len(remaining) >= minIndexed(Cubic); round++ {
+		var all []scored
+		for _, m := range models(opts, found) {
+			sol, ok := m.search(remaining, cfg)
+			if !ok {
+				if round == 0 {
+					res.Models = append(res.Models, ModelSummary{Kind: m.kind, Lattice: m.lattice, Chance: 1})
+				}
+				continue
+			}
+			all = append(all, scored{m: m, sol: sol, chance: 1})
+		}
+		// Best figure of merit first; the first significant solution with
+		// enough peaks is the phase. Chance is refined with more random
+		// lists only where it decides.
+		sort.SliceStable(all, func(i, j int) bool { return better(all[i], all[j]) })
+		best := -1
+		for i := range all {
+			s := &all[i]
+			perModel := 1 - math.Pow(1-opts.MaxChance, 1/float64(s.m.latticesOfKind()))
+			decides := best < 0 && s.sol.indexed >= minIndexed(s.m.kind)
+			if !decides && round > 0 {
+				continue
+			}
+			c, basis := chance(s.m, remaining, cfg, s.sol.score, perModel, decides)
+			s.chance, s.basis = sidak(c, s.m.latticesOfKind()), basis
+			if decides && s.chance <= opts.MaxChance {
+				best = i
+			}
+		}
+		if round == 0 {
+			for _, s := range all {
+				res.Models = append(res.Models, summary(s.m, s.sol, s.chance))
+			}
+		}
+		if best < 0 {
+			break
+		}
+		b := all[best]
+		ph := buildPhase(b, remaining, lambda, total)
+		res.Phases = append(res.Phases, ph)
+		if b.m.kind == Icosahedral {
+			found = append(found, ph.QuasilatticeConstantA)
+		}
+		var rest []Peak
+		for i, j := range b.sol.assign {
+			if j < 0 {
+				rest = append(rest, remaining[i])
+			}
+		}
+		remaining = rest
+	}
+	res.Unexplained = append(res.Unexplained, remaining...)
+	sort.SliceStable(res.Phases, func(i, j int) bool {
+		return res.Phases[i].ExplainedIntensity > res.Phases[j].ExplainedIntensity
+	})
+	return res
+}
+
+// better orders significant solutions: higher figure of merit first; an
+// approximant beats the same cubic solution found by the general search.
+func better(x, y scored) bool {
+	if math.Abs(x.sol.score-y.sol.score) > 1e-6*math.Max(1, math.Abs(y.sol.score)) {
+		return x.sol.score > y.sol.score
+	}
+	return x.m.kind == Approximant && y.m.kind == Cubic
+}
+
+func summary(m *model, sol solution, c float64) ModelSummary {
+	s := ModelSummary{Kind: m.kind, Lattice: m.lattice, ScaleA: sol.a, IndexedPeaks: sol.indexed, FigureOfMerit: sol.score, Chance: c}
+	if m.kind == Icosahedral {
+		s.ScaleA = sol.a / math.Sqrt2
+	}
+	if m.kind == Approximant && sol.approx >= 0 {
+		s.Order = m.approx[sol.approx].order.String()
+	}
+	return s
+}
+
+func buildPhase(s scored, peaks []Peak, lambda, total float64) Phase {
+	m, sol := s.m, s.sol
+	ph := Phase{
+		Kind:                    m.kind,
+		Lattice:                 m.lattice,
+		ZeroShiftDeg:            sol.z,
+		ZeroShiftUncertaintyDeg: sol.sigZ,
+		FigureOfMerit:           sol.score,
+		Chance:                  s.chance,
+		ChanceBasis:             s.basis,
+		Peaks:                   []IndexedPeak{},
+	}
+	switch m.kind {
+	case Icosahedral:
+		ph.SixDimensionalConstantA = sol.a
+		ph.QuasilatticeConstantA = sol.a / math.Sqrt2
+		ph.QuasilatticeConstantUncertaintyA = sol.sigA / math.Sqrt2
+	default:
+		ph.AA = sol.a
+		ph.AUncertaintyA = sol.sigA
+	}
+	if m.kind == Approximant {
+		w := m.approx[sol.approx]
+		ph.Order = w.order.String()
+		ph.ApproximantOf = w.reference
+		ph.IdealAA = w.ideal
+	}
+	var explained, rss float64
+	var trendX, trendY []float64
+	for i, j := range sol.assign {
+		if j < 0 {
+			continue
+		}
+		p := peaks[i]
+		ln := m.lines[j]
+		calc, _ := twoTheta(ln.g, sol.a, lambda)
+		calc += sol.z
+		ip := IndexedPeak{
+			TwoThetaDeg:           p.TwoThetaDeg,
+			Intensity:             p.Intensity,
+			DSpacingA:             1 / qAt(p.TwoThetaDeg-sol.z, lambda),
+			CalculatedTwoThetaDeg: calc,
+			ResidualDeg:           p.TwoThetaDeg - calc,
+		}
+		if m.kind == Icosahedral {
+			f := m.families[ln.ref]
+			ip.Icosahedral = &IcosahedralLabel{N: f.N, M: f.M, Index: f.Index, Multiplicity: f.Multiplicity, Perp: f.Perp, PerpPerA: f.Perp / sol.a}
+			trendX = append(trendX, f.Perp/sol.a)
+			trendY = append(trendY, math.Abs(qAt(p.TwoThetaDeg-sol.z, lambda)-ln.g/sol.a))
+		} else {
+			hkl := m.cubicLines[ln.ref].HKL
+			ip.HKL = &hkl
+		}
+		ph.Peaks = append(ph.Peaks, ip)
+		explained += p.Intensity
+		rss += ip.ResidualDeg * ip.ResidualDeg
+	}
+	ph.RMSResidualDeg = math.Sqrt(rss / float64(len(ph.Peaks)))
+	if total > 0 {
+		ph.ExplainedIntensity = explained / total
+	}
+	if m.kind == Icosahedral {
+		ph.PhasonTrend = phasonTrend(trendX, trendY)
+	}
+	return ph
+}
+
+// phasonTrend fits y = c + slope·x by least squares and flags a positive
+// slope beyond three standard uncertainties over at least five points.
+//
+// Reference: common practice (ordinary least squares).
+func phasonTrend(x, y []float64) *PhasonTrend {
+	n := float64(len(x))
+	if len(x) < 3 {
+		return &PhasonTrend{}
+	}
+	var mx, my float64
+	for i := range x {
+		mx += x[i]
+		my += y[i]
+	}
+	mx /= n
+	my /= n
+	var sxx, sxy float64
+	for i := range x {
+		sxx += (x[i] - mx) * (x[i] - mx)
+		sxy += (x[i] - mx) * (y[i] - my)
+	}
+	if sxx == 0 {
+		return &PhasonTrend{}
+	}
+	slope := sxy / sxx
+	var rss float64
+	for i := range x {
+		r := y[i] - my - slope*(x[i]-mx)
+		rss += r * r
+	}
+	sig := math.Sqrt(rss / (n - 2) / sxx)
+	return &PhasonTrend{Slope: slope, SlopeUncertainty: sig, Flagged: len(x) >= 5 && slope > 0 && slope > 3*sig}
+}

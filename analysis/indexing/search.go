@@ -1,0 +1,257 @@
+package indexing
+
+import (
+	"math"
+	"sort"
+)
+
+// solution is a model's best fit to a peak list.
+type solution struct {
+	a, z       float64 // scale (Å) and zero shift (degrees)
+	sigA, sigZ float64 // standard uncertainties
+	score      float64
+	indexed    int
+	assign     []int     // per peak: line index or -1
+	resid      []float64 // per peak: residual in degrees (0 when not indexed)
+	approx     int       // approximant window index, -1 otherwise
+}
+
+// searchConfig carries what a search needs besides the model.
+type searchConfig struct {
+	lambda  float64
+	tol     float64
+	maxZero float64
+}
+
+// anchors returns the indices of the strongest peaks, strongest first.
+func anchors(peaks []Peak) []int {
+	idx := make([]int, len(peaks))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(i, j int) bool { return peaks[idx[i]].Intensity > peaks[idx[j]].Intensity })
+	if len(idx) > anchorCount {
+		idx = idx[:anchorCount]
+	}
+	return idx
+}
+
+// search finds the model's best solution for the peaks (sorted by 2θ). The
+// scale is proposed by putting each of the strongest peaks on each line
+// allowed for it within the model's windows, scored with no zero shift;
+// the best few proposals are refined by least squares on scale and zero
+// shift, re-matching the peaks each time. The best solution may index too
+// few peaks to be a phase; the caller decides. ok is false when no scale
+// puts two strong peaks on lines.
+func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) {
+	prep := prepare(peaks, cfg.lambda, 0, cfg.tol, make([]preparedPeak, 0, len(peaks)))
+	type cand struct {
+		a, s float64
+		n    int
+	}
+	var cands []cand
+	anc := anchors(peaks)
+	for _, i := range anc {
+		pp := &prep[i]
+		for _, w := range m.windows {
+			j := lowerBound(m.gs, pp.q*w.lo)
+			for ; j < len(m.gs) && m.gs[j] <= pp.q*w.hi; j++ {
+				if m.lines[j].perp > anchorPerp {
+					continue
+				}
+				a := m.gs[j] / pp.q
+				// A scale worth scoring puts a second strong peak on a line.
+				second := false
+				for _, k := range anc {
+					if k != i && m.hits(&prep[k], a) {
+						second = true
+						break
+					}
+				}
+				if second {
+					cands = append(cands, cand{a: a})
+				}
+			}
+		}
+	}
+	if len(cands) == 0 {
+		return solution{}, false
+	}
+	sort.Slice(cands, func(i, j int) bool { return cands[i].a < cands[j].a })
+	uniq := cands[:1]
+	for _, c := range cands[1:] {
+		if c.a > uniq[len(uniq)-1].a*(1+1e-7) {
+			uniq = append(uniq, c)
+		}
+	}
+	for i := range uniq {
+		uniq[i].s, uniq[i].n = m.score(prep, uniq[i].a)
+	}
+	sort.Slice(uniq, func(i, j int) bool { return uniq[i].s > uniq[j].s })
+	best.score = -1
+	tried := 0
+	for _, c := range uniq {
+		if tried == refineCount {
+			break
+		}
+		tried++
+		sol, good := m.refine(peaks, c.a, cfg)
+		if good && sol.score > best.score {
+			best = sol
+		}
+	}
+	return best, best.score >= 0
+}
+
+// refine iterates matching and least squares from scale a with no zero shift.
+func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, bool) {
+	prep := make([]preparedPeak, 0, len(peaks))
+	z := 0.0
+	var sol solution
+	for iter := 0; iter < 4; iter++ {
+		prep = prepare(peaks, cfg.lambda, z, cfg.tol, prep)
+		sol = m.assign(prep, a, z)
+		if sol.indexed < 2 {
+			return sol, false
+		}
+		na, nz, sa, sz := m.leastSquares(peaks, sol.assign, a, z, cfg)
+		sol.sigA, sol.sigZ = sa, sz
+		if math.Abs(na-a) < 1e-9*a && math.Abs(nz-z) < 1e-7 {
+			break
+		}
+		if !m.inWindows(na, 0.002) {
+			break
+		}
+		a, z = na, nz
+	}
+	prep = prepare(peaks, cfg.lambda, z, cfg.tol, prep)
+	final := m.assign(prep, a, z)
+	final.sigA, final.sigZ = sol.sigA, sol.sigZ
+	if final.indexed < 2 {
+		return final, false
+	}
+	if m.kind == Approximant {
+		final.approx = m.approximantWindow(a)
+		if final.approx < 0 || !m.strongLinesIcosahedral(peaks, final, cfg.lambda) {
+			return final, false
+		}
+	}
+	return final, true
+}
+
+// assign matches every peak at (a, z) and scores the result.
+func (m *model) assign(prep []preparedPeak, a, z float64) solution {
+	sol := solution{a: a, z: z, assign: make([]int, len(prep)), resid: make([]float64, len(prep)), approx: -1}
+	for i := range prep {
+		idx, r, p := m.match(&prep[i], a)
+		sol.assign[i] = idx
+		if idx >= 0 {
+			sol.indexed++
+			sol.resid[i] = r
+			sol.score -= math.Log(p)
+		}
+	}
+	return sol
+}
+
+// twoTheta returns the calculated angle (degrees) of line g at scale a, and
+// whether it is reachable.
+func twoTheta(g, a, lambda float64) (float64, bool) {
+	s := lambda * g / (2 * a)
+	if s >= 1 {
+		return 0, false
+	}
+	return 2 * math.Asin(s) * 180 / math.Pi, true
+}
+
+// leastSquares fits scale a and zero shift z to the assigned peaks,
+//
+//	2θobs,i = 2·asin(λ gᵢ / 2a) + z
+//
+// by Gauss-Newton, and returns the standard uncertainties from the
+// covariance σ²(JᵀJ)⁻¹ with σ² = RSS/(m − p). With fewer than four
+// assigned peaks, or when the fitted |z| exceeds cfg.maxZero, z is held at 0.
+//
+// Reference: common practice (linearised least squares).
+func (m *model) leastSquares(peaks []Peak, assign []int, a, z float64, cfg searchConfig) (na, nz, sigA, sigZ float64) {
+	n := 0
+	for _, j := range assign {
+		if j >= 0 {
+			n++
+		}
+	}
+	fitZero := n >= 4
+	na, nz, sigA, sigZ = m.gaussNewton(peaks, assign, a, z, fitZero, cfg.lambda)
+	if fitZero && math.Abs(nz) > cfg.maxZero {
+		na, nz, sigA, sigZ = m.gaussNewton(peaks, assign, a, 0, false, cfg.lambda)
+	}
+	return na, nz, sigA, sigZ
+}
+
+func (m *model) gaussNewton(peaks []Peak, assign []int, a, z float64, fitZero bool, lambda float64) (float64, float64, float64, float64) {
+	if !fitZero {
+		z = 0
+	}
+	var saa, saz, szz, rss float64
+	n := 0
+	for it := 0; it < 6; it++ {
+		var ga, gz float64
+		saa, saz, szz, rss, n = 0, 0, 0, 0, 0
+		for i, j := range assign {
+			if j < 0 {
+				continue
+			}
+			g := m.gs[j]
+			s := lambda * g / (2 * a)
+			if s >= 1 {
+				continue
+			}
+			calc := 2 * math.Asin(s) * 180 / math.Pi
+			r := peaks[i].TwoThetaDeg - z - calc
+			// ∂calc/∂a in degrees per Å.
+			da := -2 * s / a / math.Sqrt(1-s*s) * 180 / math.Pi
+			saa += da * da
+			saz += da
+			szz++
+			ga += da * r
+			gz += r
+			rss += r * r
+			n++
+		}
+		var dA, dZ float64
+		if fitZero {
+			det := saa*szz - saz*saz
+			if det <= 0 {
+				break
+			}
+			dA = (szz*ga - saz*gz) / det
+			dZ = (saa*gz - saz*ga) / det
+		} else if saa > 0 {
+			dA = ga / saa
+		}
+		a += dA
+		z += dZ
+		if math.Abs(dA) < 1e-12*a && math.Abs(dZ) < 1e-10 {
+			break
+		}
+	}
+	p := 1
+	if fitZero {
+		p = 2
+	}
+	if n <= p {
+		return a, z, 0, 0
+	}
+	sigma2 := rss / float64(n-p)
+	if fitZero {
+		det := saa*szz - saz*saz
+		if det <= 0 {
+			return a, z, 0, 0
+		}
+		return a, z, math.Sqrt(sigma2 * szz / det), math.Sqrt(sigma2 * saa / det)
+	}
+	if saa <= 0 {
+		return a, z, 0, 0
+	}
+	return a, z, math.Sqrt(sigma2 / saa), 0
+}
