@@ -8,7 +8,9 @@
 // caller's seed plans the campaigns, and each run then draws from its own
 // PCG stream, so the same seed gives the same notebook value for value.
 // The result is plain domain values (meltbook.Melt, ProcessStep, ...), not
-// written to any store; a writer feeds a Notebook to the store run by run.
+// written to any store; Notebook.Document turns it into a store document
+// for store.ImportDocument, keeping the invented times and writing one
+// "create" history entry per row.
 //
 // # Codes
 //

@@ -1,9 +1,11 @@
 package seed_test
 
 import (
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
+	"path/filepath"
 	"regexp"
 	"sort"
 	"strings"
@@ -15,6 +17,7 @@ import (
 	"meltbook/analysis/descriptor"
 	"meltbook/analysis/element"
 	"meltbook/seed"
+	"meltbook/store"
 )
 
 // seeds are the notebooks the statistical tests pool.
@@ -673,6 +676,48 @@ func TestNotes(t *testing.T) {
 	}
 	if cautions == 0 {
 		t.Error("no note carries a bench caution deferring to local rules")
+	}
+}
+
+func TestDocumentImportsIntoTheStore(t *testing.T) {
+	nb := generate(t, 1)
+	doc, err := nb.Document()
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	st, err := store.Init(ctx, filepath.Join(t.TempDir(), "demo.meltbook"), store.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer st.Close()
+	if err := st.ImportDocument(ctx, "seed test", doc); err != nil {
+		t.Fatal(err)
+	}
+	_, total, err := st.FindMelts(ctx, meltbook.MeltFilter{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if total != len(nb.Runs) {
+		t.Errorf("store holds %d melts, the notebook %d", total, len(nb.Runs))
+	}
+	for _, r := range nb.Runs {
+		rec, err := st.MeltRecord(ctx, r.Melt.Code)
+		if err != nil {
+			t.Fatal(err)
+		}
+		notes := len(r.Notes)
+		for _, d := range r.Derived {
+			notes += len(d.Notes)
+		}
+		if len(rec.Samples) != 1+len(r.Derived) || len(rec.Notes) != notes ||
+			len(rec.Samples[0].Outcomes) != len(r.Outcomes) || !rec.Melt.CreatedAt.Equal(r.Melt.CreatedAt) {
+			t.Errorf("%s read back with %d samples, %d notes, %d outcomes; want %d, %d, %d",
+				r.Melt.Code, len(rec.Samples), len(rec.Notes), len(rec.Samples[0].Outcomes), 1+len(r.Derived), notes, len(r.Outcomes))
+		}
+		if len(rec.History) == 0 || rec.History[0].Action != "create" {
+			t.Errorf("%s: history %v, want create entries", r.Melt.Code, rec.History)
+		}
 	}
 }
 
