@@ -161,8 +161,10 @@ type candidate struct {
 //
 //  1. Savitzky-Golay smoothing of the intensity (order 2 by default);
 //
-//  2. SNIP background (LLS operator) of the smoothed intensity, raised by
-//     the clipping bias measured on the scan (see raiseBackground);
+//  2. SNIP background (LLS operator) of the smoothed intensity, computed
+//     on block means when the window is long (see coarseBackground) and
+//     raised by the clipping bias measured on the scan (see
+//     raiseBackground);
 //
 //  3. net signal = smoothed − background, Kα2-stripped by Rachinger's
 //     method when the radiation says Kα2 is in the scan;
@@ -226,7 +228,7 @@ func Find(scan scanfile.Scan, rad radiation.Radiation, opts Options) (Result, er
 		return Result{}, err
 	}
 	bgHalf := max(int(math.Round(o.BackgroundHalfWidthDeg/step)), 1)
-	snipInto(res.Background, res.Profile, res.Smoothed, bgHalf, true)
+	coarseBackground(res.Background, res.Profile, x, res.Smoothed, bgHalf)
 
 	variance := make([]float64, n)
 	for i := range variance {
@@ -400,7 +402,14 @@ func raiseBackground(b, smoothed, variance []float64, g float64, scratch []float
 	for i := range b {
 		r[i] = (smoothed[i] - b[i]) / sigma(i)
 	}
-	c := median(append([]float64(nil), r...))
+	// The median of at most 1024 evenly spaced residuals starts the
+	// clipping; it only has to land inside the noise band.
+	stride := max(len(r)/1024, 1)
+	sample := make([]float64, 0, len(r)/stride+1)
+	for i := 0; i < len(r); i += stride {
+		sample = append(sample, r[i])
+	}
+	c := median(sample)
 	for pass := 0; pass < 2; pass++ {
 		sum, k := 0.0, 0
 		for _, v := range r {
@@ -430,4 +439,45 @@ func median(v []float64) float64 {
 		return v[n/2]
 	}
 	return 0.5 * (v[n/2-1] + v[n/2])
+}
+
+// coarseWindow is the longest SNIP window, in blocks, that coarseBackground
+// clips with.
+const coarseWindow = 16
+
+// coarseBackground writes into b the SNIP background (LLS) of smoothed with
+// a half-window of m points. When m exceeds coarseWindow, SNIP runs on the
+// means of blocks of f = ⌈m/coarseWindow⌉ points (block centres at the mean
+// angle of their points) with a half-window of ⌈m/f⌉ blocks, and the result
+// is interpolated linearly back to every point: the background varies over
+// the window, not over a block, and the cost falls by f². scratch must have
+// len(b).
+func coarseBackground(b, scratch, x, smoothed []float64, m int) {
+	n := len(smoothed)
+	f := (m + coarseWindow - 1) / coarseWindow
+	if f <= 1 || n/f < 3 {
+		snipInto(b, scratch, smoothed, m, true)
+		return
+	}
+	nb := (n + f - 1) / f
+	bx, by := make([]float64, nb), make([]float64, nb)
+	for k := 0; k < nb; k++ {
+		lo, hi := k*f, min((k+1)*f, n)
+		var sx, sy float64
+		for i := lo; i < hi; i++ {
+			sx += x[i]
+			sy += smoothed[i]
+		}
+		bx[k], by[k] = sx/float64(hi-lo), sy/float64(hi-lo)
+	}
+	bb := make([]float64, nb)
+	snipInto(bb, scratch[:nb], by, (m+f-1)/f, true)
+	k := 0
+	for i, xi := range x {
+		for k+1 < nb-1 && bx[k+1] < xi {
+			k++
+		}
+		t := (xi - bx[k]) / (bx[k+1] - bx[k])
+		b[i] = bb[k] + t*(bb[k+1]-bb[k])
+	}
 }

@@ -3,6 +3,9 @@ package peaks
 import (
 	"math"
 
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
 	"gonum.org/v1/gonum/mat"
 )
 
@@ -35,16 +38,18 @@ type groupFit struct {
 	doublet          bool
 	lambdaRatio, rat float64 // λ₂/λ₁ and I(Kα2)/I(Kα1)
 
+	c2, dc2 []float64 // per peak: Kα2 angle and its derivative by the Kα1 angle
+	has2    []bool
+
 	p      []float64 // parameters
 	trial  []float64
 	jac    []float64 // n × np, row-major
 	resid  []float64 // weighted residuals √w (y − f)
 	model  []float64
-	normal *mat.SymDense
-	grad   *mat.VecDense
-	rhs    *mat.VecDense
-	step   *mat.VecDense
-	chol   mat.Cholesky
+	normal []float64 // JᵀWJ, np × np row-major (upper triangle used)
+	grad   []float64 // JᵀW r
+	damped []float64 // scratch for the damped normal matrix
+	rhs    []float64 // scratch: right-hand side, then the step
 
 	iterations int
 	converged  bool
@@ -55,15 +60,18 @@ type groupFit struct {
 func newGroupFit(n, npk int) *groupFit {
 	np := bgTerms + perPeak*npk
 	return &groupFit{
+		c2:     make([]float64, npk),
+		dc2:    make([]float64, npk),
+		has2:   make([]bool, npk),
 		p:      make([]float64, np),
 		trial:  make([]float64, np),
 		jac:    make([]float64, n*np),
 		resid:  make([]float64, n),
 		model:  make([]float64, n),
-		normal: mat.NewSymDense(np, nil),
-		grad:   mat.NewVecDense(np, nil),
-		rhs:    mat.NewVecDense(np, nil),
-		step:   mat.NewVecDense(np, nil),
+		normal: make([]float64, np*np),
+		grad:   make([]float64, np),
+		damped: make([]float64, np*np),
+		rhs:    make([]float64, np),
 	}
 }
 
@@ -84,6 +92,11 @@ func (g *groupFit) kalpha2(c float64) (c2, dc2 float64, ok bool) {
 func (g *groupFit) evaluate(p []float64, withJac bool) float64 {
 	np := len(p)
 	npk := g.npk()
+	if g.doublet {
+		for k := 0; k < npk; k++ {
+			g.c2[k], g.dc2[k], g.has2[k] = g.kalpha2(p[bgTerms+perPeak*k+pCenter])
+		}
+	}
 	chi2 := 0.0
 	for i, x := range g.x {
 		u := x - g.xMid
@@ -99,14 +112,12 @@ func (g *groupFit) evaluate(p []float64, withJac bool) float64 {
 			q := p[bgTerms+perPeak*k : bgTerms+perPeak*(k+1)]
 			c, a, fw, eta := q[pCenter], q[pArea], q[pFWHM], q[pEta]
 			v, dc, dw, de := pvTerms(x, c, fw, eta)
-			if g.doublet {
-				if c2, dc2, ok := g.kalpha2(c); ok {
-					v2, dcc, dw2, de2 := pvTerms(x, c2, fw, eta)
-					v += g.rat * v2
-					dc += g.rat * dcc * dc2
-					dw += g.rat * dw2
-					de += g.rat * de2
-				}
+			if g.doublet && g.has2[k] {
+				v2, dcc, dw2, de2 := pvTerms(x, g.c2[k], fw, eta)
+				v += g.rat * v2
+				dc += g.rat * dcc * g.dc2[k]
+				dw += g.rat * dw2
+				de += g.rat * de2
 			}
 			f += a * v
 			if withJac {
@@ -139,7 +150,7 @@ func (g *groupFit) clamp(p []float64) {
 // pinned reports whether parameter a sits on a bound of clamp with the
 // gradient of −χ²/2 pointing out of the allowed range.
 func (g *groupFit) pinned(a int) bool {
-	v, gr := g.p[a], g.grad.AtVec(a)
+	v, gr := g.p[a], g.grad[a]
 	var lo, hi float64
 	switch (a - bgTerms) % perPeak {
 	case pCenter:
@@ -154,24 +165,69 @@ func (g *groupFit) pinned(a int) bool {
 	return v <= lo && gr < 0 || v >= hi && gr > 0
 }
 
-// formNormal builds JᵀWJ and JᵀW r from the current Jacobian and residuals.
+// formNormal builds JᵀWJ (upper triangle) and JᵀW r from the current
+// Jacobian and residuals.
 func (g *groupFit) formNormal() {
 	np := len(g.p)
-	n := len(g.x)
-	for a := 0; a < np; a++ {
-		for b := a; b < np; b++ {
-			s := 0.0
-			for i := 0; i < n; i++ {
-				s += g.jac[i*np+a] * g.jac[i*np+b]
-			}
-			g.normal.SetSym(a, b, s)
-		}
-		s := 0.0
-		for i := 0; i < n; i++ {
-			s += g.jac[i*np+a] * g.resid[i]
-		}
-		g.grad.SetVec(a, s)
+	for a := range g.normal {
+		g.normal[a] = 0
 	}
+	for a := range g.grad {
+		g.grad[a] = 0
+	}
+	for i := range g.x {
+		row := g.jac[i*np : (i+1)*np]
+		r := g.resid[i]
+		for a, ja := range row {
+			if ja == 0 {
+				continue
+			}
+			g.grad[a] += ja * r
+			na := g.normal[a*np : (a+1)*np]
+			for b := a; b < np; b++ {
+				na[b] += ja * row[b]
+			}
+		}
+	}
+}
+
+// solveDamped solves (JᵀWJ + λ·diag(JᵀWJ)) δ = JᵀW r, with pinned
+// parameters held fixed, into g.rhs; false when the matrix is not positive
+// definite.
+func (g *groupFit) solveDamped(lambda float64) bool {
+	np := len(g.p)
+	copy(g.damped, g.normal)
+	copy(g.rhs, g.grad)
+	for a := 0; a < np; a++ {
+		d := g.normal[a*np+a]
+		if d == 0 {
+			d = 1e-12
+		}
+		g.damped[a*np+a] = d * (1 + lambda)
+	}
+	// A parameter held at a bound that the gradient pushes against stays
+	// there: drop it from this step (projected step).
+	for a := bgTerms; a < np; a++ {
+		if g.pinned(a) {
+			for b := 0; b < np; b++ {
+				if b != a {
+					g.damped[min(a, b)*np+max(a, b)] = 0
+				}
+			}
+			g.rhs[a] = 0
+		}
+	}
+	t, ok := lapack64.Potrf(blas64.Symmetric{N: np, Stride: np, Data: g.damped, Uplo: blas.Upper})
+	if !ok {
+		return false
+	}
+	lapack64.Potrs(t, blas64.General{Rows: np, Cols: 1, Stride: 1, Data: g.rhs})
+	for _, v := range g.rhs {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
 }
 
 // run minimises χ² from the starting parameters in g.p, for at most
@@ -185,33 +241,10 @@ func (g *groupFit) run(maxIter int) {
 	g.chi2 = g.evaluate(g.p, true)
 	g.formNormal()
 	lambda := 1e-3
-	damped := mat.NewSymDense(np, nil)
 	for g.iterations = 0; g.iterations < maxIter; g.iterations++ {
-		damped.CopySym(g.normal)
-		g.rhs.CopyVec(g.grad)
-		for a := 0; a < np; a++ {
-			d := g.normal.At(a, a)
-			if d == 0 {
-				d = 1e-12
-			}
-			damped.SetSym(a, a, d*(1+lambda))
-		}
-		// A parameter held at a bound that the gradient pushes against
-		// stays there: drop it from this step (projected step).
-		for a := bgTerms; a < np; a++ {
-			if g.pinned(a) {
-				for b := 0; b < np; b++ {
-					if b != a {
-						damped.SetSym(a, b, 0)
-					}
-				}
-				g.rhs.SetVec(a, 0)
-			}
-		}
-		solved := g.chol.Factorize(damped) && g.chol.SolveVecTo(g.step, g.rhs) == nil
-		if solved {
+		if g.solveDamped(lambda) {
 			for a := 0; a < np; a++ {
-				g.trial[a] = g.p[a] + g.step.AtVec(a)
+				g.trial[a] = g.p[a] + g.rhs[a]
 			}
 			g.clamp(g.trial)
 			// evaluate overwrites the residuals, but the gradient
@@ -254,7 +287,7 @@ func (g *groupFit) covariance() {
 		return
 	}
 	var ch mat.Cholesky
-	if !ch.Factorize(g.normal) {
+	if !ch.Factorize(mat.NewSymDense(np, append([]float64(nil), g.normal...))) {
 		return
 	}
 	var inv mat.SymDense

@@ -27,8 +27,16 @@ const (
 func PseudoVoigt(x, center, fwhm, eta, area float64) float64 {
 	u := (x - center) / fwhm
 	u2 := u * u
-	return area / fwhm * (eta*lorentzN/(1+4*u2) + (1-eta)*gaussN*math.Exp(-gaussC*u2))
+	f := eta * lorentzN / (1 + 4*u2)
+	if u2 < gaussCut {
+		f += (1 - eta) * gaussN * math.Exp(-gaussC*u2)
+	}
+	return area / fwhm * f
 }
+
+// gaussCut is the squared distance in FWHM beyond which the Gaussian part,
+// exp(−4 ln2 · 40) ≈ 1e−48 of its peak, is left out.
+const gaussCut = 40
 
 // PseudoVoigtHeight returns the maximum of the pseudo-Voigt of the given
 // area, FWHM and Lorentzian fraction:

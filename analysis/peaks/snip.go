@@ -32,6 +32,9 @@ func SNIP(y []float64, halfWindowPoints int, lls bool) []float64 {
 // snipInto writes the SNIP background of y into v, using w as scratch.
 func snipInto(v, w, y []float64, m int, lls bool) {
 	n := len(y)
+	if n == 0 {
+		return
+	}
 	for i, yi := range y {
 		if lls {
 			v[i] = math.Log(math.Log(math.Sqrt(math.Max(yi, 0)+1)+1) + 1)
@@ -39,14 +42,36 @@ func snipInto(v, w, y []float64, m int, lls bool) {
 			v[i] = yi
 		}
 	}
-	for p := 1; p <= m && p < n; p++ {
-		copy(w, v)
-		for i := 1; i < n-1; i++ {
-			q := min(p, i, n-1-i)
-			if a := 0.5 * (w[i-q] + w[i+q]); a < w[i] {
-				v[i] = a
-			}
+	cur, next := v, w
+	clip := func(i, q int) {
+		if a := 0.5 * (cur[i-q] + cur[i+q]); a < cur[i] {
+			next[i] = a
+		} else {
+			next[i] = cur[i]
 		}
+	}
+	for p := 1; p <= m && p < n; p++ {
+		next[0], next[n-1] = cur[0], cur[n-1]
+		e1 := min(p, n-1)
+		for i := 1; i < e1; i++ {
+			clip(i, min(i, n-1-i))
+		}
+		lo, mid, hi := cur[:max(n-2*p, 0)], cur[p:max(n-p, p)], cur[min(2*p, n):]
+		out := next[p:max(n-p, p)]
+		for i := range mid {
+			a := 0.5 * (lo[i] + hi[i])
+			if c := mid[i]; c < a {
+				a = c
+			}
+			out[i] = a
+		}
+		for i := max(n-p, e1); i < n-1; i++ {
+			clip(i, min(p, i, n-1-i))
+		}
+		cur, next = next, cur
+	}
+	if &cur[0] != &v[0] {
+		copy(v, cur)
 	}
 	if lls {
 		for i, vi := range v {
