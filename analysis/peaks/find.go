@@ -323,7 +323,8 @@ func search(z, smoothed, bg, variance, x []float64, g, k float64, wlen int) []ca
 			c.center = x[i] + off*(x[i+1]-x[i-1])/2
 			c.height = z[i] - 0.25*(z[i-1]-z[i+1])*off
 		}
-		c.fwhm = halfWidth(z, x, i, wlen)
+		// A peak wider than the background window is background.
+		c.fwhm = math.Min(halfWidth(z, x, i, wlen), x[min(i+wlen, n-1)]-x[max(i-wlen, 0)])
 		out = append(out, c)
 	}
 	return out

@@ -9,6 +9,12 @@ import (
 	"meltbook/analysis/scanfile"
 )
 
+// maxGroupPeaks caps how many overlapping peaks one window fits together;
+// a longer run of overlapping peaks is cut into windows of this many, so
+// that a crowded or noisy stretch cannot make one fit of hundreds of
+// parameters.
+const maxGroupPeaks = 8
+
 // fitAll groups the candidates into windows, fits each window and fills
 // res.Peaks, res.Groups and res.Profile.
 func fitAll(res *Result, scan scanfile.Scan, cands []candidate, variance []float64, step float64, o Options) {
@@ -32,7 +38,7 @@ func fitAll(res *Result, scan scanfile.Scan, cands []candidate, variance []float
 	for first := 0; first < len(cands); {
 		lo, hi := span(cands[first])
 		last := first
-		for last+1 < len(cands) {
+		for last+1 < len(cands) && last+1-first < maxGroupPeaks {
 			l2, h2 := span(cands[last+1])
 			if l2 > hi {
 				break

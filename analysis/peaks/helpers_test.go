@@ -6,7 +6,6 @@ import (
 
 	"gonum.org/v1/gonum/stat/distuv"
 
-	"meltbook/analysis/peaks"
 	"meltbook/analysis/radiation"
 	"meltbook/analysis/scanfile"
 )
@@ -58,5 +57,3 @@ func synthScan(seed uint64, x0, step float64, n int, bg func(float64) float64, p
 	}
 	return s, expect
 }
-
-var _ = peaks.Find
