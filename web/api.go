@@ -3,17 +3,20 @@ package web
 import (
 	"encoding/json"
 	"net/http"
+	"strconv"
 
 	"github.com/go-chi/chi/v5"
+
+	"meltbook/query"
 )
 
 // The JSON API mirrors the pages:
 //
 //	GET /api/summary        Summary
-//	GET /api/filters        []FilterField, the find vocabulary
-//	GET /api/runs?…         RunPage, one page of the run table (sort, desc, page, filters)
-//	GET /api/find?…         RunPage with every match (up to MaxExportRows), the find command's JSON
-//	GET /api/runs/{code}    RunDetail
+//	GET /api/filters        []query.Field, the find vocabulary
+//	GET /api/runs?…         {"total": n, "rows": []query.Row}: one page of the run table (filters, sort, desc, page)
+//	GET /api/find?…         []query.Row: every match (up to MaxExportRows), as the find command prints it
+//	GET /api/runs/{code}    meltbook.MeltRecord
 //	GET /api/scans/{id}     ScanView
 //	GET /api/map?…          the composition map's points, shares and e/a lines
 //
@@ -37,47 +40,46 @@ func (s *Server) apiSummary(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) apiFilters(w http.ResponseWriter, r *http.Request) {
-	writeJSON(w, s.nb.FilterFields())
+	writeJSON(w, query.Fields())
+}
+
+// runsJSON is one page of /api/runs.
+type runsJSON struct {
+	Total int         `json:"total"`
+	Rows  []query.Row `json:"rows"`
 }
 
 func (s *Server) apiRuns(w http.ResponseWriter, r *http.Request) {
-	rq, _, err := s.parseRunQuery(r.URL.Query())
+	f, err := s.parseFind(r.URL.Query())
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	page, err := s.nb.FindRuns(r.Context(), rq)
+	found, total, err := s.nb.FindMelts(r.Context(), f)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	writeJSON(w, page)
+	writeJSON(w, runsJSON{Total: total, Rows: query.Rows(found)})
 }
 
 func (s *Server) apiFind(w http.ResponseWriter, r *http.Request) {
-	rq, _, err := s.parseRunQuery(r.URL.Query())
+	found, total, err := s.findAll(r)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	all, err := s.allRuns(r, rq, MaxExportRows)
-	if err != nil {
-		s.fail(w, r, err)
-		return
-	}
-	if all.Runs == nil {
-		all.Runs = []RunRow{}
-	}
-	writeJSON(w, all)
+	w.Header().Set("X-Total-Count", strconv.Itoa(total))
+	writeJSON(w, query.Rows(found))
 }
 
 func (s *Server) apiRun(w http.ResponseWriter, r *http.Request) {
-	d, err := s.nb.Run(r.Context(), chi.URLParam(r, "code"))
+	p, err := s.loadRun(r, chi.URLParam(r, "code"))
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	writeJSON(w, d)
+	writeJSON(w, p.Run)
 }
 
 func (s *Server) apiScan(w http.ResponseWriter, r *http.Request) {

@@ -6,8 +6,8 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"sort"
-	"strconv"
 	"strings"
 	"sync"
 	"time"
@@ -18,20 +18,12 @@ import (
 	"meltbook/web/plot"
 )
 
-// testScheme holds valences for the invented notebook: Al 3, Cu 1, Si 4
-// and B 3 are group valences (common practice); Fe −2.66 and Mn −3.66 are
-// Raynor's values as commonly quoted, Pd 0 likewise (from memory).
-var testScheme = element.Scheme{
-	Name:    "Raynor (test copy)",
-	Source:  "from memory, for tests only",
-	Valence: map[string]float64{"Al": 3, "Cu": 1, "Fe": -2.66, "Si": 4, "B": 3, "Mn": -3.66, "Pd": 0},
-}
-
-// Metallic radii for 12-fold coordination in Å (from memory, tests only).
+// Metallic radii for 12-fold coordination in Å (from memory, for the test
+// δ only).
 var testRadii = map[string]float64{"Al": 1.432, "Cu": 1.278, "Fe": 1.274, "Si": 1.32, "B": 0.98, "Mn": 1.35, "Pd": 1.376}
 
 // testSizeMismatch is δ = 100·sqrt(Σ c_i (1 − r_i/r̄)²), r̄ = Σ c_i r_i
-// (common practice), for the descriptor map in tests.
+// (common practice), standing in for the descriptor package in tests.
 func testSizeMismatch(comp []meltbook.ElementFraction) (float64, error) {
 	var mean float64
 	for _, ef := range comp {
@@ -49,7 +41,8 @@ func testSizeMismatch(comp []meltbook.ElementFraction) (float64, error) {
 	return 100 * math.Sqrt(sum), nil
 }
 
-// fakeSample is one sample of the fake notebook.
+// fakeSample is one sample of the fake notebook. A melt's own sample has
+// the melt's code; derived ones carry a parent.
 type fakeSample struct {
 	code, melt  string
 	composition []meltbook.ElementFraction
@@ -59,9 +52,9 @@ type fakeSample struct {
 	created     time.Time
 }
 
-// fakeNotebook implements web.Notebook in memory. It understands the
-// filters outcome (a map class or phase kind), ea (lo:hi), code (prefix)
-// and treatment (as-spun or annealed).
+// fakeNotebook implements web.Notebook in memory, enough for the pages:
+// FindMelts honours outcomes, e/a, cooling rate, elements, operator, sort
+// and paging.
 type fakeNotebook struct {
 	mu      sync.Mutex
 	samples []fakeSample
@@ -82,6 +75,8 @@ func fractions(pairs ...any) []meltbook.ElementFraction {
 	return out
 }
 
+var epoch = time.Date(2031, 3, 2, 9, 0, 0, 0, time.UTC)
+
 func decided(kinds ...meltbook.PhaseKind) []meltbook.Outcome {
 	var out []meltbook.Outcome
 	for _, k := range kinds {
@@ -101,13 +96,18 @@ func decided(kinds ...meltbook.PhaseKind) []meltbook.Outcome {
 
 func ptr(v float64) *float64 { return &v }
 
-var epoch = time.Date(2031, 3, 2, 9, 0, 0, 0, time.UTC)
+func raynor() element.Scheme {
+	s, _ := element.LookupScheme(element.RaynorScheme)
+	return s
+}
 
 // inventedNotebook makes n samples of an invented group's Al-Cu-Fe campaign
-// (with some Si, B and Pd-Mn side lines), outcomes following a rough
-// invented rule of e/a and cooling rate. Deterministic.
+// (with some Si, B and Pd-Mn side lines): every melt is spun and half of
+// them also annealed. Outcomes follow a rough invented rule of e/a and
+// cooling rate. Deterministic.
 func inventedNotebook(n int) *fakeNotebook {
 	r := rand.New(rand.NewPCG(2031, 42))
+	valence := raynor().Valence
 	f := newFake()
 	for i := 0; i < n; i++ {
 		melt := fmt.Sprintf("ZR-%04d", i/2+1)
@@ -124,13 +124,16 @@ func inventedNotebook(n int) *fakeNotebook {
 			si := 0.01 + 0.04*r.Float64()
 			comp = fractions("Al", al-si, "Cu", 1-al-fe, "Fe", fe, "Si", si)
 		case 7:
-			comp = fractions("Al", al-0.02, "Cu", 1-al-fe, "Fe", fe, "B", 0.02)
+			comp = fractions("Al", al-0.08, "Cu", 1-al-fe, "Fe", fe, "B", 0.08)
 		case 9:
 			pd := 0.18 + 0.06*r.Float64()
 			mn := 0.07 + 0.04*r.Float64()
 			comp = fractions("Al", 1-pd-mn, "Pd", pd, "Mn", mn)
 		}
-		ea, _ := plot.ElectronsPerAtom(comp, testScheme.Valence)
+		if annealed {
+			comp = f.samples[len(f.samples)-1].composition
+		}
+		ea, _ := plot.ElectronsPerAtom(comp, valence)
 		rate := math.Pow(10, 4.5+2.5*r.Float64())
 		var outcomes []meltbook.Outcome
 		switch x := r.Float64(); {
@@ -155,17 +158,33 @@ func inventedNotebook(n int) *fakeNotebook {
 	return f
 }
 
+// melts returns the melt codes in order of their first sample.
+func (f *fakeNotebook) melts() []string {
+	var out []string
+	for _, s := range f.samples {
+		if !slices.Contains(out, s.melt) {
+			out = append(out, s.melt)
+		}
+	}
+	return out
+}
+
+func (f *fakeNotebook) own(melt string) (fakeSample, bool) {
+	for _, s := range f.samples {
+		if s.code == melt {
+			return s, true
+		}
+	}
+	return fakeSample{}, false
+}
+
 func (f *fakeNotebook) Summary(ctx context.Context) (web.Summary, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.fault != nil {
 		return web.Summary{}, f.fault
 	}
-	melts := map[string]bool{}
-	for _, s := range f.samples {
-		melts[s.melt] = true
-	}
-	sum := web.Summary{Melts: len(melts), Samples: len(f.samples), Scans: len(melts)}
+	sum := web.Summary{Melts: len(f.melts()), Samples: len(f.samples), Scans: len(f.melts())}
 	for i := len(f.samples) - 1; i >= 0 && len(sum.Recent) < 6; i-- {
 		s := f.samples[i]
 		sum.Recent = append(sum.Recent, meltbook.HistoryEntry{At: s.created, Who: "T. Ingram", MeltCode: s.melt, Entity: "sample", Action: "create"})
@@ -173,93 +192,107 @@ func (f *fakeNotebook) Summary(ctx context.Context) (web.Summary, error) {
 	return sum, nil
 }
 
-func (f *fakeNotebook) FilterFields() []web.FilterField {
-	return []web.FilterField{
-		{Name: "code", Label: "Code", Help: "start of a melt or sample code", Example: "ZR-00"},
-		{Name: "outcome", Label: "Outcome", Help: "a phase kind", Example: "icosahedral"},
-		{Name: "ea", Label: "e/a", Help: "range lo:hi", Example: "1.7:1.8"},
-		{Name: "treatment", Label: "Treatment", Help: "as-spun or annealed", Example: "as-spun"},
-	}
-}
-
-func (f *fakeNotebook) row(s fakeSample) web.RunRow {
-	row := web.RunRow{Sample: s.code, Melt: s.melt, CreatedAt: s.created, Operator: "T. Ingram", Composition: s.composition, Outcomes: s.outcomes, CoolingRateKPerS: s.rate, Treatment: "as-spun"}
-	if s.annealed {
-		row.Treatment = "annealed"
-	}
-	if ea, err := plot.ElectronsPerAtom(s.composition, testScheme.Valence); err == nil {
-		row.ElectronsPerAtom = &ea
-	}
-	return row
-}
-
-func (f *fakeNotebook) FindRuns(ctx context.Context, q web.RunQuery) (web.RunPage, error) {
+func (f *fakeNotebook) FindMelts(ctx context.Context, q meltbook.MeltFilter) ([]meltbook.MeltSummary, int, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.fault != nil {
-		return web.RunPage{}, f.fault
+		return nil, 0, f.fault
 	}
-	var rows []web.RunRow
-	for _, s := range f.samples {
-		row := f.row(s)
-		keep := true
-		for _, t := range q.Filters {
-			switch t.Name {
-			case "code":
-				keep = keep && strings.HasPrefix(s.code, t.Value)
-			case "treatment":
-				if t.Value != "as-spun" && t.Value != "annealed" {
-					return web.RunPage{}, meltbook.Errorf(meltbook.Invalid, "treatment", "%q is not as-spun or annealed", t.Value)
-				}
-				keep = keep && row.Treatment == t.Value
-			case "outcome":
-				keep = keep && plot.ClassOf(s.outcomes).Slug() == t.Value
-			case "ea":
-				lo, hi, ok := strings.Cut(t.Value, ":")
-				a, errA := strconv.ParseFloat(lo, 64)
-				b, errB := strconv.ParseFloat(hi, 64)
-				if !ok || errA != nil || errB != nil {
-					return web.RunPage{}, meltbook.Errorf(meltbook.Invalid, "ea", "%q is not a range lo:hi", t.Value)
-				}
-				keep = keep && row.ElectronsPerAtom != nil && *row.ElectronsPerAtom >= a && *row.ElectronsPerAtom <= b
-			default:
-				return web.RunPage{}, meltbook.Errorf(meltbook.Invalid, t.Name, "unknown filter")
+	if err := q.Validate(); err != nil {
+		return nil, 0, err
+	}
+	scheme, ok := element.LookupScheme(q.Scheme)
+	if !ok {
+		return nil, 0, meltbook.Errorf(meltbook.Invalid, "scheme", "no valence scheme %q", q.Scheme)
+	}
+	var rows []meltbook.MeltSummary
+	for _, melt := range f.melts() {
+		own, _ := f.own(melt)
+		row := meltbook.MeltSummary{Code: melt, CreatedAt: own.created, Operator: "T. Ingram", Nominal: own.composition, Scheme: q.Scheme, CoolingRateKPerS: own.rate}
+		if ea, err := plot.ElectronsPerAtom(own.composition, scheme.Valence); err == nil {
+			row.EOverA = &ea
+		}
+		kinds := map[meltbook.PhaseKind]bool{}
+		for _, s := range f.samples {
+			if s.melt != melt {
+				continue
 			}
+			for _, o := range s.outcomes {
+				standing := o.Source == meltbook.ByPerson || o.Status == meltbook.Confirmed
+				pending := o.Source == meltbook.ByAutomatic && o.Status == meltbook.Proposed
+				if !standing && !(pending && q.IncludeProposals) {
+					continue
+				}
+				o.SampleCode = s.code
+				row.Outcomes = append(row.Outcomes, o)
+				kinds[o.Kind] = true
+			}
+		}
+		keep := len(q.Outcomes) == 0
+		for _, k := range q.Outcomes {
+			keep = keep || kinds[k]
+		}
+		if q.EOverA != nil {
+			keep = keep && row.EOverA != nil && q.EOverA.Contains(*row.EOverA)
+		}
+		if q.CoolingRateKPerS != nil {
+			keep = keep && row.CoolingRateKPerS != nil && q.CoolingRateKPerS.Contains(*row.CoolingRateKPerS)
+		}
+		for _, el := range q.Elements {
+			keep = keep && slices.ContainsFunc(row.Nominal, func(ef meltbook.ElementFraction) bool { return ef.Element == el })
+		}
+		if q.OnlyElements {
+			keep = keep && len(row.Nominal) == len(q.Elements)
+		}
+		if q.Operator != "" {
+			keep = keep && q.Operator == row.Operator
 		}
 		if keep {
 			rows = append(rows, row)
 		}
 	}
-	key := func(r web.RunRow) string {
-		switch q.Sort {
-		case web.SortSample:
-			return r.Sample
-		case web.SortMelt:
-			return r.Melt
-		case web.SortEA:
-			return fmt.Sprintf("%012.6f", *r.ElectronsPerAtom+100)
-		case web.SortRate:
-			if r.CoolingRateKPerS == nil {
-				return ""
+	less := func(a, b meltbook.MeltSummary) int {
+		value := func(r meltbook.MeltSummary) *float64 {
+			switch q.Sort {
+			case meltbook.SortEOverA:
+				return r.EOverA
+			case meltbook.SortCoolingRate:
+				return r.CoolingRateKPerS
 			}
-			return fmt.Sprintf("%020.3f", *r.CoolingRateKPerS)
-		case web.SortOutcome:
-			return strconv.Itoa(int(plot.ClassOf(r.Outcomes)))
+			return nil
 		}
-		return r.CreatedAt.Format(time.RFC3339)
+		switch q.Sort {
+		case meltbook.SortCode:
+			return strings.Compare(a.Code, b.Code)
+		case meltbook.SortEOverA, meltbook.SortCoolingRate:
+			va, vb := value(a), value(b)
+			switch {
+			case va == nil || vb == nil:
+				return 0
+			case *va < *vb:
+				return -1
+			case *va > *vb:
+				return 1
+			}
+			return 0
+		}
+		return a.CreatedAt.Compare(b.CreatedAt)
 	}
 	sort.SliceStable(rows, func(i, j int) bool {
 		if q.Descending {
-			return key(rows[i]) > key(rows[j])
+			return less(rows[i], rows[j]) > 0
 		}
-		return key(rows[i]) < key(rows[j])
+		return less(rows[i], rows[j]) < 0
 	})
-	page := web.RunPage{Total: len(rows)}
-	end := min(q.Offset+q.Limit, len(rows))
-	if q.Offset < end {
-		page.Runs = rows[q.Offset:end]
+	total := len(rows)
+	if q.Limit > 0 {
+		end := min(q.Offset+q.Limit, total)
+		if q.Offset >= end {
+			return nil, total, nil
+		}
+		rows = rows[q.Offset:end]
 	}
-	return page, nil
+	return rows, total, nil
 }
 
 func (f *fakeNotebook) MapSamples(ctx context.Context) ([]web.MapSample, error) {
@@ -275,57 +308,84 @@ func (f *fakeNotebook) MapSamples(ctx context.Context) ([]web.MapSample, error) 
 	return out, nil
 }
 
-func (f *fakeNotebook) Run(ctx context.Context, code string) (web.RunDetail, error) {
+func (f *fakeNotebook) SampleMelt(ctx context.Context, code string) (string, error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	for _, s := range f.samples {
+		if s.code == code {
+			return s.melt, nil
+		}
+	}
+	return "", meltbook.Errorf(meltbook.NotFound, "sample", "no sample %s in the notebook", code)
+}
+
+func (f *fakeNotebook) MeltRecord(ctx context.Context, code string) (*meltbook.MeltRecord, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.fault != nil {
-		return web.RunDetail{}, f.fault
+		return nil, f.fault
 	}
-	melt := ""
+	own, ok := f.own(code)
+	if !ok || own.melt != code {
+		return nil, meltbook.Errorf(meltbook.NotFound, "melt", "no melt %s in the notebook", code)
+	}
+	rec := &meltbook.MeltRecord{
+		Melt:             meltbook.Melt{Code: code, Operator: "T. Ingram", CreatedAt: own.created, CompositionEntered: plot.FormatComposition(own.composition), Nominal: own.composition, TargetMassGrams: 12},
+		CoolingRateKPerS: own.rate,
+	}
+	if ea, err := plot.ElectronsPerAtom(own.composition, raynor().Valence); err == nil {
+		rec.EOverA = map[string]float64{element.RaynorScheme: ea}
+	}
 	for _, s := range f.samples {
-		if s.code == code || s.melt == code {
-			melt = s.melt
-		}
-	}
-	if melt == "" {
-		return web.RunDetail{}, meltbook.Errorf(meltbook.NotFound, "code", "no melt or sample %s", code)
-	}
-	var d web.RunDetail
-	for _, s := range f.samples {
-		if s.melt != melt {
+		if s.melt != code {
 			continue
 		}
-		if s.code == melt {
-			d.Melt = meltbook.Melt{Code: melt, Operator: "T. Ingram", CreatedAt: s.created, CompositionEntered: plot.FormatComposition(s.composition), Nominal: s.composition, TargetMassGrams: 12}
-		}
-		sd := web.SampleDetail{Sample: meltbook.Sample{Code: s.code, CreatedAt: s.created}, Outcomes: s.outcomes}
-		spin := meltbook.ProcessStep{Seq: 1, Kind: meltbook.MeltSpin, At: s.created, Operator: "T. Ingram", Params: []meltbook.Param{
-			{Name: "wheel-speed", SI: 32, Unit: "m/s"}, {Name: "chamber-gas", Text: "Ar"}, {Name: "melt-temperature", SI: 1523.15, Unit: "°C"},
-		}}
-		if s.rate != nil {
-			spin.Params = append(spin.Params, meltbook.Param{Name: "cooling-rate", SI: *s.rate, Unit: "K/s"})
-		}
+		sr := meltbook.SampleRecord{Sample: meltbook.Sample{Code: s.code, CreatedAt: s.created}, Outcomes: s.outcomes}
 		if s.annealed {
-			sd.Sample.ParentCode = melt
-			sd.Steps = []meltbook.ProcessStep{{Seq: 1, Kind: meltbook.Anneal, At: s.created, Operator: "T. Ingram", Params: []meltbook.Param{
+			sr.ParentCode, sr.Depth = code, 1
+			sr.Steps = []meltbook.ProcessStep{{Seq: 1, Kind: meltbook.Anneal, At: s.created, Operator: "T. Ingram", Params: []meltbook.Param{
 				{Name: "temperature", SI: 1073.15, Unit: "°C"}, {Name: "time", SI: 4 * 3600, Unit: "h"}, {Name: "atmosphere", Text: "sealed silica under Ar"},
 			}}}
 		} else {
-			sd.Steps = []meltbook.ProcessStep{spin}
-			sd.Scans = []web.ScanSummary{{ID: 1, Name: s.code + "-xrd.xy", Radiation: "Cu Kα", FromDeg: 20, ToDeg: 80, Points: 3001}}
+			spin := meltbook.ProcessStep{Seq: 1, Kind: meltbook.MeltSpin, At: s.created, Operator: "T. Ingram", Params: []meltbook.Param{
+				{Name: "wheel-speed", SI: 32, Unit: "m/s"}, {Name: "chamber-gas", Text: "Ar"}, {Name: "melt-temperature", SI: 1523.15, Unit: "°C"},
+			}}
+			if s.rate != nil {
+				spin.Params = append(spin.Params, meltbook.Param{Name: "cooling-rate", SI: *s.rate, Unit: "K/s"})
+			}
+			sr.Steps = []meltbook.ProcessStep{spin}
 		}
-		d.Samples = append(d.Samples, sd)
+		rec.Samples = append(rec.Samples, sr)
 	}
-	d.Notes = f.notes[melt]
-	return d, nil
+	rec.Notes = f.notes[code]
+	return rec, nil
+}
+
+func (f *fakeNotebook) meltNumber(code string) int64 {
+	for i, m := range f.melts() {
+		if m == code {
+			return int64(i + 1)
+		}
+	}
+	return 0
+}
+
+func (f *fakeNotebook) Scans(ctx context.Context, melt string) ([]web.ScanSummary, error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	return []web.ScanSummary{{ID: f.meltNumber(melt), Sample: melt, Name: melt + "-xrd.xy", Radiation: "Cu Kα", FromDeg: 20, ToDeg: 80, Points: 3001}}, nil
 }
 
 func (f *fakeNotebook) Scan(ctx context.Context, id int64) (web.ScanView, error) {
-	if id != 1 {
-		return web.ScanView{}, meltbook.Errorf(meltbook.NotFound, "id", "no scan %d", id)
+	f.mu.Lock()
+	melts := f.melts()
+	f.mu.Unlock()
+	if id < 1 || id > int64(len(melts)) {
+		return web.ScanView{}, meltbook.Errorf(meltbook.NotFound, "scan", "no scan %d", id)
 	}
+	melt := melts[id-1]
 	var p plot.Pattern
-	// Invented peaks on a sloping background; labels are invented too.
+	// Invented peaks on a sloping background; the labels are invented too.
 	peaks := []struct {
 		t, h, w float64
 		label   string
@@ -347,22 +407,34 @@ func (f *fakeNotebook) Scan(ctx context.Context, id int64) (web.ScanView, error)
 		p.Peaks = append(p.Peaks, plot.PeakMark{TwoThetaDeg: pk.t, Label: pk.label, Explained: pk.label != ""})
 	}
 	return web.ScanView{
-		ScanSummary: web.ScanSummary{ID: 1, Name: "ZR-0001-xrd.xy", Radiation: "Cu Kα", FromDeg: 20, ToDeg: 80, Points: 3001},
-		Sample:      "ZR-0001", Melt: "ZR-0001", ImportedAt: epoch, SHA256: strings.Repeat("ab", 32),
+		ScanSummary: web.ScanSummary{ID: id, Sample: melt, Name: melt + "-xrd.xy", Radiation: "Cu Kα", FromDeg: 20, ToDeg: 80, Points: 3001},
+		Melt:        melt, ImportedAt: epoch, SHA256: strings.Repeat("5e", 32),
 		Indexing: "icosahedral F (invented), 6 of 7 peaks", Pattern: p,
 	}, nil
 }
 
-func (f *fakeNotebook) AddNote(ctx context.Context, meltCode string, n meltbook.Note) (meltbook.Note, error) {
+func (f *fakeNotebook) AddNote(ctx context.Context, who, code, text string) (*meltbook.Note, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	switch {
-	case strings.Contains(n.Text, "CLASH"):
-		return n, meltbook.Errorf(meltbook.Conflict, "text", "an identical note was recorded a moment ago")
-	case strings.Contains(n.Text, "BREAK"):
-		return n, errors.New("disk /var/secret/notebook.db is full")
+	case strings.Contains(text, "CLASH"):
+		return nil, meltbook.Errorf(meltbook.Conflict, "text", "an identical note was recorded a moment ago")
+	case strings.Contains(text, "BREAK"):
+		return nil, errors.New("disk /var/secret/notebook.db is full")
 	}
-	n.At = epoch
-	f.notes[meltCode] = append(f.notes[meltCode], n)
-	return n, nil
+	melt := ""
+	for _, s := range f.samples {
+		if s.code == code {
+			melt = s.melt
+		}
+	}
+	if melt == "" {
+		return nil, meltbook.Errorf(meltbook.NotFound, "sample", "no melt or sample %s", code)
+	}
+	n := meltbook.Note{Author: who, Text: text, At: epoch}
+	if code != melt {
+		n.SampleCode = code
+	}
+	f.notes[melt] = append(f.notes[melt], n)
+	return &n, nil
 }

@@ -287,11 +287,13 @@ func (s *Server) buildCompositionMap(r *http.Request) (*compositionMapData, erro
 	if len(c.Errors) > 0 {
 		return d, nil
 	}
+	d.Points = make([]mapPoint, 0, len(samples))
+	d.markers = make([]plot.TernaryMarker, 0, len(samples))
 	tri := f.triangle
 	d.Corners = tri.Labels()
 	d.title = strings.Join(d.Corners[:], "–")
 	d.Counts.Total = len(samples)
-	var shown [][]meltbook.ElementFraction
+	shown := make([][]meltbook.ElementFraction, 0, len(samples))
 	eaMin, eaMax := math.Inf(1), math.Inf(-1)
 	for i := range samples {
 		m := &samples[i]
@@ -350,12 +352,15 @@ func electronLines(cv [3]float64, lo, hi, step float64) []plot.Isoline {
 	}
 	var levels []float64
 	if step > 0 {
-		for k := math.Ceil(math.Max(lo, triLo)/step - 1e-9); ; k++ {
-			v := k * step
-			if v > math.Min(hi, triHi)+1e-9 || len(levels) >= 60 {
+		// One line beyond the samples on each side frames them.
+		for k := math.Floor(lo/step + 1e-9); len(levels) < 60; k++ {
+			v := roundLevel(k*step, step)
+			if v > math.Ceil(hi/step-1e-9)*step+step/2 {
 				break
 			}
-			levels = append(levels, math.Round(v/step)*step)
+			if v > triLo && v < triHi {
+				levels = append(levels, v)
+			}
 		}
 	} else {
 		if hi-lo < 0.1 {
@@ -382,6 +387,13 @@ func electronLines(cv [3]float64, lo, hi, step float64) []plot.Isoline {
 		out = append(out, iso)
 	}
 	return out
+}
+
+// roundLevel removes floating-point noise from a multiple of step
+// (1.7500000000000002 becomes 1.75).
+func roundLevel(v, step float64) float64 {
+	p := math.Pow(10, float64(plot.Decimals(step)+2))
+	return math.Round(v*p) / p
 }
 
 // svgNotes are the lines written into the figure so that a saved copy says

@@ -1,7 +1,6 @@
 package web
 
 import (
-	"encoding/csv"
 	"errors"
 	"html/template"
 	"math"
@@ -14,6 +13,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"meltbook"
+	"meltbook/query"
 	"meltbook/web/plot"
 )
 
@@ -29,7 +29,8 @@ type overviewPage struct {
 type classCount struct {
 	Class plot.Class
 	Count int
-	// Href lists the class's runs when the find vocabulary can say so.
+	// Href lists the melts with this outcome, for classes that are one
+	// phase kind.
 	Href string
 }
 
@@ -48,91 +49,83 @@ func (s *Server) overview(w http.ResponseWriter, r *http.Request) {
 	for _, m := range samples {
 		counts[plot.ClassOf(m.Outcomes)]++
 	}
-	hasOutcomeFilter := false
-	for _, f := range s.nb.FilterFields() {
-		hasOutcomeFilter = hasOutcomeFilter || f.Name == "outcome"
-	}
 	p := overviewPage{Summary: sum, Mapped: len(samples)}
 	for _, c := range plot.Classes {
 		cc := classCount{Class: c, Count: counts[c]}
-		// Only classes that are one phase kind have a find term.
 		switch c {
 		case plot.ClassIcosahedral, plot.ClassDecagonal, plot.ClassApproximant, plot.ClassAmorphous:
-			if hasOutcomeFilter {
-				cc.Href = "/runs?outcome=" + url.QueryEscape(c.Slug())
-			}
+			cc.Href = "/runs?" + query.Outcome + "=" + url.QueryEscape(c.Slug())
 		}
 		p.Classes = append(p.Classes, cc)
 	}
 	s.render(w, r, http.StatusOK, "overview", "Notebook", p)
 }
 
-// reservedParams are query parameters of the run table that are not filters.
-var reservedParams = map[string]bool{"sort": true, "desc": true, "page": true, tokenParam: true}
+// Query parameters of the run table besides the filters.
+const (
+	paramSort = "sort"
+	paramDesc = "desc"
+	paramPage = "page"
+)
 
-// parseRunQuery reads filters, sort order and page from a query. Unknown
+// mainFilters are shown at once on the run page; the others sit under
+// "more filters" unless one of them is in use.
+var mainFilters = map[string]bool{query.Outcome: true, query.EA: true, query.Rate: true, query.System: true, query.With: true}
+
+// parseFind reads the find filters (the vocabulary of package query, as
+// the find command takes them), sort order and page from a query. Unknown
 // parameters are errors so that a mistyped filter is not silently ignored.
-func (s *Server) parseRunQuery(q url.Values) (RunQuery, []filterInput, error) {
-	fields := s.nb.FilterFields()
-	known := map[string]bool{}
-	inputs := make([]filterInput, len(fields))
-	rq := RunQuery{Sort: SortCreated, Descending: true, Limit: PageSize}
-	for i, f := range fields {
+func (s *Server) parseFind(q url.Values) (meltbook.MeltFilter, error) {
+	known := map[string]bool{paramSort: true, paramDesc: true, paramPage: true, tokenParam: true}
+	var names []string
+	for _, f := range query.Fields() {
 		known[f.Name] = true
-		inputs[i] = filterInput{FilterField: f, Value: q.Get(f.Name)}
-		for _, v := range q[f.Name] {
-			if v = strings.TrimSpace(v); v != "" {
-				rq.Filters = append(rq.Filters, FilterTerm{Name: f.Name, Value: v})
-			}
-		}
+		names = append(names, f.Name)
 	}
 	for name := range q {
-		if !known[name] && !reservedParams[name] {
-			return rq, inputs, meltbook.Errorf(meltbook.Invalid, name, "%q is not a filter; the filters are %s", name, filterNames(fields))
+		if !known[name] {
+			return meltbook.MeltFilter{}, meltbook.Errorf(meltbook.Invalid, name, "%q is not a filter; the filters are %s", name, strings.Join(names, ", "))
 		}
 	}
-	if v := q.Get("sort"); v != "" {
-		switch v {
-		case SortCreated, SortSample, SortMelt, SortEA, SortRate, SortOutcome:
-			rq.Sort = v
-			rq.Descending = false
-		default:
-			return rq, inputs, meltbook.Errorf(meltbook.Invalid, "sort", "cannot sort by %q; choose created, sample, melt, ea, rate or outcome", v)
-		}
+	f, err := query.Parse(query.Terms(q), query.Options{Location: s.location})
+	if err != nil {
+		return f, err
 	}
-	if v := q.Get("desc"); v != "" {
-		rq.Descending = v == "1" || v == "true"
+	f.Sort, f.Descending = meltbook.SortCreated, true
+	if v := q.Get(paramSort); v != "" {
+		f.Sort, f.Descending = meltbook.MeltSort(v), false
 	}
-	if v := q.Get("page"); v != "" {
+	if v := q.Get(paramDesc); v != "" {
+		f.Descending = v == "1" || v == "true"
+	}
+	f.Limit = PageSize
+	if v := q.Get(paramPage); v != "" {
 		n, err := strconv.Atoi(v)
 		if err != nil || n < 1 {
-			return rq, inputs, meltbook.Errorf(meltbook.Invalid, "page", "%q is not a page number", v)
+			return f, meltbook.Errorf(meltbook.Invalid, paramPage, "%q is not a page number", v)
 		}
-		rq.Offset = (n - 1) * PageSize
+		f.Offset = (n - 1) * PageSize
 	}
-	return rq, inputs, nil
-}
-
-func filterNames(fields []FilterField) string {
-	names := make([]string, len(fields))
-	for i, f := range fields {
-		names[i] = f.Name
-	}
-	return strings.Join(names, ", ")
+	return f, f.Validate()
 }
 
 type filterInput struct {
-	FilterField
-	Value string
-	Error string
+	query.Field
+	// Values as typed; one input each (at least one).
+	Values []string
+	Error  string
 }
 
 type runsPage struct {
 	// Valid is set when the filters were understood and the search ran.
 	Valid     bool
 	Filters   []filterInput
+	More      []filterInput
+	MoreOpen  bool
 	FormError string
-	Result    RunPage
+	Rows      []meltbook.MeltSummary
+	Total     int
+	Scheme    string
 	Columns   []column
 	PageNo    int
 	Pages     int
@@ -152,41 +145,51 @@ type column struct {
 
 func (s *Server) runs(w http.ResponseWriter, r *http.Request) {
 	q := r.URL.Query()
-	rq, inputs, err := s.parseRunQuery(q)
-	p := runsPage{Filters: inputs, Filtered: len(rq.Filters) > 0}
+	f, err := s.parseFind(q)
+	p := runsPage{Filtered: len(query.Terms(q)) > 0}
+	var found []meltbook.MeltSummary
 	if err == nil {
-		p.Result, err = s.nb.FindRuns(r.Context(), rq)
+		found, p.Total, err = s.nb.FindMelts(r.Context(), f)
+	}
+	errField, errMessage := "", ""
+	if err != nil {
+		var e *meltbook.Error
+		if kindOf(err) != meltbook.Invalid || !errors.As(err, &e) {
+			s.fail(w, r, err)
+			return
+		}
+		errField, errMessage = e.Field, e.Message
+	}
+	placed := false
+	for _, fd := range query.Fields() {
+		in := filterInput{Field: fd, Values: q[fd.Name]}
+		if len(in.Values) == 0 {
+			in.Values = []string{""}
+		}
+		if fd.Name == errField {
+			in.Error, placed = errMessage, true
+		}
+		if mainFilters[fd.Name] {
+			p.Filters = append(p.Filters, in)
+		} else {
+			p.More = append(p.More, in)
+			p.MoreOpen = p.MoreOpen || in.Error != "" || strings.Join(in.Values, "") != ""
+		}
 	}
 	if err != nil {
-		if kindOf(err) != meltbook.Invalid {
-			s.fail(w, r, err)
-			return
-		}
-		// Say what is wrong next to the filter at fault.
-		var e *meltbook.Error
-		if !errors.As(err, &e) {
-			s.fail(w, r, err)
-			return
-		}
-		placed := false
-		for i := range p.Filters {
-			if p.Filters[i].Name == e.Field {
-				p.Filters[i].Error, placed = e.Message, true
-			}
-		}
 		if !placed {
-			p.FormError = e.Error()
+			p.FormError = err.Error()
 		}
 		s.render(w, r, http.StatusBadRequest, "runs", "Runs", p)
 		return
 	}
-	p.Valid = true
-	p.Columns = runColumns(q, rq)
-	p.PageNo = rq.Offset/PageSize + 1
-	p.Pages = max(1, (p.Result.Total+PageSize-1)/PageSize)
+	p.Valid, p.Rows, p.Scheme = true, found, f.Scheme
+	p.Columns = runColumns(q, f)
+	p.PageNo = f.Offset/PageSize + 1
+	p.Pages = max(1, (p.Total+PageSize-1)/PageSize)
 	link := func(page int) string {
 		v := cloneValues(q)
-		v.Set("page", strconv.Itoa(page))
+		v.Set(paramPage, strconv.Itoa(page))
 		return "/runs?" + v.Encode()
 	}
 	if p.PageNo > 1 {
@@ -196,7 +199,7 @@ func (s *Server) runs(w http.ResponseWriter, r *http.Request) {
 		p.Next = link(p.PageNo + 1)
 	}
 	v := cloneValues(q)
-	v.Del("page")
+	v.Del(paramPage)
 	p.CSV = "/runs.csv?" + v.Encode()
 	p.JSON = "/api/find?" + v.Encode()
 	s.render(w, r, http.StatusOK, "runs", "Runs", p)
@@ -212,11 +215,15 @@ func cloneValues(q url.Values) url.Values {
 	return v
 }
 
-// runColumns builds the table header: clicking a sorted column reverses it.
-func runColumns(q url.Values, rq RunQuery) []column {
-	cols := []struct{ label, key string }{
-		{"Sample", SortSample}, {"Melt", SortMelt}, {"Made", SortCreated}, {"Composition (at.%)", ""},
-		{"Treatment", ""}, {"Cooling rate", SortRate}, {"e/a", SortEA}, {"Outcome", SortOutcome},
+// runColumns builds the table header: clicking the sorted column reverses
+// it; dates start newest first.
+func runColumns(q url.Values, f meltbook.MeltFilter) []column {
+	cols := []struct {
+		label string
+		key   meltbook.MeltSort
+	}{
+		{"Melt", meltbook.SortCode}, {"Made", meltbook.SortCreated}, {"Operator", ""}, {"Nominal composition (at.%)", ""},
+		{"e/a (" + f.Scheme + ")", meltbook.SortEOverA}, {"Cooling rate", meltbook.SortCoolingRate}, {"Outcomes", ""},
 	}
 	out := make([]column, len(cols))
 	for i, c := range cols {
@@ -225,97 +232,54 @@ func runColumns(q url.Values, rq RunQuery) []column {
 			continue
 		}
 		v := cloneValues(q)
-		v.Del("page")
-		v.Set("sort", c.key)
-		v.Del("desc")
-		if c.key == rq.Sort {
-			if rq.Descending {
-				out[i].Sorted = "descending"
-			} else {
-				out[i].Sorted = "ascending"
-				v.Set("desc", "1")
-			}
-		} else if c.key == SortCreated {
-			v.Set("desc", "1")
+		v.Del(paramPage)
+		v.Set(paramSort, string(c.key))
+		v.Del(paramDesc)
+		switch {
+		case c.key == f.Sort && f.Descending:
+			out[i].Sorted = "descending"
+		case c.key == f.Sort:
+			out[i].Sorted = "ascending"
+			v.Set(paramDesc, "1")
+		case c.key == meltbook.SortCreated:
+			v.Set(paramDesc, "1")
 		}
 		out[i].Href = "/runs?" + v.Encode()
 	}
 	return out
 }
 
-// allRuns pages through every row matching rq, up to limit rows.
-func (s *Server) allRuns(r *http.Request, rq RunQuery, limit int) (RunPage, error) {
-	var all RunPage
-	rq.Offset, rq.Limit = 0, MaxPageSize
-	for {
-		page, err := s.nb.FindRuns(r.Context(), rq)
-		if err != nil {
-			return all, err
-		}
-		all.Total = page.Total
-		all.Runs = append(all.Runs, page.Runs...)
-		if len(page.Runs) == 0 || len(all.Runs) >= page.Total || len(all.Runs) >= limit {
-			return all, nil
-		}
-		rq.Offset += len(page.Runs)
-	}
-}
-
-// MaxExportRows caps a CSV export or /api/find answer.
+// MaxExportRows caps a CSV export or an /api/find answer.
 const MaxExportRows = 100_000
 
-func (s *Server) runsCSV(w http.ResponseWriter, r *http.Request) {
-	rq, _, err := s.parseRunQuery(r.URL.Query())
+// findAll runs the query's search without paging, up to MaxExportRows.
+func (s *Server) findAll(r *http.Request) ([]meltbook.MeltSummary, int, error) {
+	f, err := s.parseFind(r.URL.Query())
 	if err != nil {
-		s.fail(w, r, err)
-		return
+		return nil, 0, err
 	}
-	all, err := s.allRuns(r, rq, MaxExportRows)
+	f.Offset, f.Limit = 0, MaxExportRows
+	return s.nb.FindMelts(r.Context(), f)
+}
+
+// runsCSV writes the search as the find command's CSV.
+func (s *Server) runsCSV(w http.ResponseWriter, r *http.Request) {
+	found, _, err := s.findAll(r)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
 	w.Header().Set("Content-Type", "text/csv; charset=utf-8")
-	w.Header().Set("Content-Disposition", `attachment; filename="meltbook-runs.csv"`)
-	cw := csv.NewWriter(w)
-	cw.Write([]string{"sample", "melt", "made", "operator", "composition_at_pct", "composition_basis", "treatment", "cooling_rate_K_per_s", "ea", "outcome_class", "outcomes"})
-	for _, row := range all.Runs {
-		basis := "nominal"
-		if row.Measured {
-			basis = "measured"
-		}
-		rate, ea := "", ""
-		if row.CoolingRateKPerS != nil {
-			rate = strconv.FormatFloat(*row.CoolingRateKPerS, 'g', 4, 64)
-		}
-		if row.ElectronsPerAtom != nil {
-			ea = strconv.FormatFloat(*row.ElectronsPerAtom, 'f', 3, 64)
-		}
-		outcomes := make([]string, len(row.Outcomes))
-		for i, o := range row.Outcomes {
-			outcomes[i] = outcomeText(o)
-		}
-		cw.Write([]string{
-			cell(row.Sample), cell(row.Melt), row.CreatedAt.Format("2006-01-02T15:04:05Z07:00"), cell(row.Operator),
-			plot.FormatComposition(row.Composition), basis, cell(row.Treatment), rate, ea,
-			plot.ClassOf(row.Outcomes).Slug(), cell(strings.Join(outcomes, "; ")),
-		})
+	w.Header().Set("Content-Disposition", `attachment; filename="meltbook-melts.csv"`)
+	if err := query.WriteCSV(w, query.Rows(found)); err != nil {
+		s.log.Error("write CSV", "err", err)
 	}
-	cw.Flush()
-}
-
-// cell guards a text cell against being read as a formula by a spreadsheet:
-// one starting with =, +, -, @, tab or carriage return gets a leading
-// apostrophe (common practice, OWASP "CSV injection").
-func cell(s string) string {
-	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
-		return "'" + s
-	}
-	return s
 }
 
 type runPage struct {
-	Run RunDetail
+	Run *meltbook.MeltRecord
+	// Scans of the melt's samples, by sample code.
+	Scans map[string][]ScanSummary
 	// Focus is the sample code the page was opened for, if any.
 	Focus string
 	Note  noteForm
@@ -328,34 +292,60 @@ type noteForm struct {
 	Error string
 }
 
+// loadRun reads a melt's record and scans; code may name the melt or one
+// of its samples, in which case focus is that sample.
+func (s *Server) loadRun(r *http.Request, code string) (p runPage, err error) {
+	rec, err := s.nb.MeltRecord(r.Context(), code)
+	if kindOf(err) == meltbook.NotFound {
+		melt, sampleErr := s.nb.SampleMelt(r.Context(), code)
+		if kindOf(sampleErr) == meltbook.NotFound {
+			return p, meltbook.Errorf(meltbook.NotFound, "code", "there is no melt or sample %s in the notebook", code)
+		}
+		if sampleErr != nil {
+			return p, sampleErr
+		}
+		p.Focus = code
+		rec, err = s.nb.MeltRecord(r.Context(), melt)
+	}
+	if err != nil {
+		return p, err
+	}
+	p.Run = rec
+	scans, err := s.nb.Scans(r.Context(), rec.Melt.Code)
+	if err != nil {
+		return p, err
+	}
+	p.Scans = map[string][]ScanSummary{}
+	for _, sc := range scans {
+		p.Scans[sc.Sample] = append(p.Scans[sc.Sample], sc)
+	}
+	return p, nil
+}
+
 func (s *Server) run(w http.ResponseWriter, r *http.Request) {
-	code := chi.URLParam(r, "code")
-	d, err := s.nb.Run(r.Context(), code)
+	p, err := s.loadRun(r, chi.URLParam(r, "code"))
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	p := runPage{Run: d, Note: noteForm{Author: s.cfg.Author}}
-	if code != d.Melt.Code {
-		p.Focus = code
-	}
-	s.render(w, r, http.StatusOK, "run", d.Melt.Code, p)
+	p.Note = noteForm{Author: s.cfg.Author}
+	s.render(w, r, http.StatusOK, "run", p.Run.Melt.Code, p)
 }
 
 // MaxNoteRunes is the longest note the form accepts.
 const MaxNoteRunes = 20000
 
 func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
-	code := chi.URLParam(r, "code")
 	if err := r.ParseForm(); err != nil {
 		s.fail(w, r, bodyError(err))
 		return
 	}
-	d, err := s.nb.Run(r.Context(), code)
+	p, err := s.loadRun(r, chi.URLParam(r, "code"))
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
+	melt := p.Run.Melt.Code
 	form := noteForm{
 		Author: strings.TrimSpace(r.PostForm.Get("author")),
 		Sample: r.PostForm.Get("sample"),
@@ -371,23 +361,25 @@ func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
 	case n > MaxNoteRunes:
 		form.Errors["text"] = "The note has " + strconv.Itoa(n) + " characters; at most " + strconv.Itoa(MaxNoteRunes) + " fit."
 	}
-	if form.Sample != "" {
+	target := melt
+	if form.Sample != "" && form.Sample != melt {
 		found := false
-		for _, sd := range d.Samples {
-			found = found || sd.Sample.Code == form.Sample
+		for _, sr := range p.Run.Samples {
+			found = found || sr.Code == form.Sample
 		}
 		if !found {
-			form.Errors["sample"] = form.Sample + " is not a sample of " + d.Melt.Code + "."
+			form.Errors["sample"] = form.Sample + " is not a sample of " + melt + "."
 		}
+		target = form.Sample
 	}
 	if len(form.Errors) == 0 {
-		_, err = s.nb.AddNote(r.Context(), d.Melt.Code, meltbook.Note{Author: form.Author, SampleCode: form.Sample, Text: strings.TrimSpace(form.Text)})
+		_, err = s.nb.AddNote(r.Context(), form.Author, target, strings.TrimSpace(form.Text))
 		if err == nil {
-			http.Redirect(w, r, "/runs/"+url.PathEscape(d.Melt.Code)+"#notes", http.StatusSeeOther)
+			http.Redirect(w, r, "/runs/"+url.PathEscape(melt)+"#notes", http.StatusSeeOther)
 			return
 		}
 		var e *meltbook.Error
-		if kindOf(err) != meltbook.Invalid || !errors.As(err, &e) {
+		if kind := kindOf(err); kind != meltbook.Invalid && kind != meltbook.Conflict || !errors.As(err, &e) {
 			s.fail(w, r, err)
 			return
 		}
@@ -397,9 +389,14 @@ func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
 		default:
 			form.Error = e.Error()
 		}
+		status, _ := statusOf(err, r)
+		p.Note = form
+		s.render(w, r, status, "run", melt, p)
+		return
 	}
-	status, _ := statusOf(meltbook.Errorf(meltbook.Invalid, "", ""), r)
-	s.render(w, r, status, "run", d.Melt.Code, runPage{Run: d, Note: form})
+	status, _ := statusOf(meltbook.Errorf(meltbook.Invalid, "", "note"), r)
+	p.Note = form
+	s.render(w, r, status, "run", melt, p)
 }
 
 type scanPage struct {

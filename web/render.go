@@ -14,6 +14,7 @@ import (
 	"path"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/go-chi/chi/v5"
@@ -133,9 +134,11 @@ func (s *Server) render(w http.ResponseWriter, r *http.Request, status int, name
 		http.Error(w, "meltbook: no page template "+name, http.StatusInternalServerError)
 		return
 	}
-	var buf bytes.Buffer
+	buf := pageBuffers.Get().(*bytes.Buffer)
+	buf.Reset()
+	defer pageBuffers.Put(buf)
 	v := view{Title: title, Section: name, FormKey: formKeyOf(r), Page: data}
-	if err := t.ExecuteTemplate(&buf, "layout", v); err != nil {
+	if err := t.ExecuteTemplate(buf, "layout", v); err != nil {
 		s.log.Error("render page", "name", name, "err", err)
 		if name != "error" {
 			s.fail(w, r, fmt.Errorf("render %s: %w", name, err))
@@ -148,6 +151,10 @@ func (s *Server) render(w http.ResponseWriter, r *http.Request, status int, name
 	w.WriteHeader(status)
 	w.Write(buf.Bytes())
 }
+
+// pageBuffers keeps page buffers between requests: a map page of many
+// samples is most of a megabyte.
+var pageBuffers = sync.Pool{New: func() any { return new(bytes.Buffer) }}
 
 // serveAsset serves an embedded file. With the current ?v= hash it may be
 // cached for good; otherwise it must be checked again.

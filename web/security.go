@@ -135,32 +135,11 @@ func (s *Server) limitBody(next http.Handler) http.Handler {
 
 type csrfKeyType struct{}
 
-func (s *Server) csrf(next http.Handler) http.Handler {
-	crossOrigin := http.NewCrossOriginProtection()
-	crossOrigin.SetDenyHandler(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		s.fail(w, r, meltbook.Errorf(kindForbidden, "", "The form was sent from another site."))
-	}))
-	check := http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		nonce := ""
-		if c, err := r.Cookie(csrfCookie); err == nil && len(c.Value) >= 16 {
-			nonce = c.Value
-		}
-		safe := r.Method == http.MethodGet || r.Method == http.MethodHead || r.Method == http.MethodOptions
-		if !safe {
-			given := r.Header.Get(csrfHeader)
-			if given == "" {
-				// Reading the form here reads the body, within its limit.
-				if err := r.ParseForm(); err != nil {
-					s.fail(w, r, bodyError(err))
-					return
-				}
-				given = r.PostForm.Get(csrfField)
-			}
-			if nonce == "" || !sameSecret(given, s.formKey(nonce)) {
-				s.fail(w, r, meltbook.Errorf(kindForbidden, "", "The form's key is missing or out of date (the server may have restarted). Reload the page and send it again; what you typed is kept only in the page you came from."))
-				return
-			}
-		}
+// formCookie makes sure the browser has a form nonce and puts the matching
+// form key in the request's context for the page's forms.
+func (s *Server) formCookie(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		nonce := formNonce(r)
 		if nonce == "" {
 			b := make([]byte, 18)
 			rand.Read(b)
@@ -170,7 +149,39 @@ func (s *Server) csrf(next http.Handler) http.Handler {
 		ctx := context.WithValue(r.Context(), csrfKeyType{}, s.formKey(nonce))
 		next.ServeHTTP(w, r.WithContext(ctx))
 	})
-	return crossOrigin.Handler(check)
+}
+
+func formNonce(r *http.Request) string {
+	if c, err := r.Cookie(csrfCookie); err == nil && len(c.Value) >= 16 {
+		return c.Value
+	}
+	return ""
+}
+
+// requireFormKey guards every route that changes the notebook: the request
+// must come from this site and carry the form key of its nonce.
+func (s *Server) requireFormKey(next http.Handler) http.Handler {
+	crossOrigin := http.NewCrossOriginProtection()
+	crossOrigin.SetDenyHandler(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		s.fail(w, r, meltbook.Errorf(kindForbidden, "", "The form was sent from another site."))
+	}))
+	return crossOrigin.Handler(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		given := r.Header.Get(csrfHeader)
+		if given == "" {
+			// Reading the form here reads the body, within its limit.
+			if err := r.ParseForm(); err != nil {
+				s.fail(w, r, bodyError(err))
+				return
+			}
+			given = r.PostForm.Get(csrfField)
+		}
+		nonce := formNonce(r)
+		if nonce == "" || !sameSecret(given, s.formKey(nonce)) {
+			s.fail(w, r, meltbook.Errorf(kindForbidden, "", "The form's key is missing or out of date (the server may have restarted). Reload the page and send it again; what you typed is kept only in the page you came from."))
+			return
+		}
+		next.ServeHTTP(w, r)
+	}))
 }
 
 // formKey is HMAC-SHA256(secret, nonce) in URL-safe base64.
