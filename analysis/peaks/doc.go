@@ -5,8 +5,8 @@
 // it) with standard uncertainties, and a zero-shift correction from an
 // internal standard (silicon or LaB6).
 //
-// Find runs the whole chain on a scan; the steps are exported for callers
-// that want one of them. Angles are 2θ in degrees, d-spacings in Å,
+// Find runs the whole chain on a scan and Result.Report gives its JSON
+// form; the steps are exported for callers that want one of them. Angles are 2θ in degrees, d-spacings in Å,
 // intensities in the scan's units (counts unless the file says otherwise),
 // areas in intensity × degrees.
 package peaks

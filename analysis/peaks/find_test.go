@@ -376,3 +376,34 @@ func TestFindRefusesBadScans(t *testing.T) {
 		t.Errorf("flat scan: %v, %d peaks", err, len(res.Peaks))
 	}
 }
+
+// TestFindWithFileUncertainties: a scan whose file gives √counts as the
+// uncertainty of each point must give the same peaks as the counting
+// statistics Find assumes without one (Poisson: σ² = counts).
+func TestFindWithFileUncertainties(t *testing.T) {
+	mono, _ := radiation.FromAnode("Cu", radiation.Kalpha2Absent)
+	s, _ := synthScan(11, 20, 0.02, 3001, specimenBackground, specimenPeaks, nil)
+	plain, err := peaks.Find(s, mono, peaks.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s.Errors = make([]float64, len(s.Counts))
+	for i, c := range s.Counts {
+		s.Errors[i] = math.Sqrt(math.Max(c, 1))
+	}
+	withESD, err := peaks.Find(s, mono, peaks.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(withESD.Peaks) != len(plain.Peaks) {
+		t.Fatalf("%d peaks with uncertainties, %d without", len(withESD.Peaks), len(plain.Peaks))
+	}
+	for i, p := range withESD.Peaks {
+		q := plain.Peaks[i]
+		// The weights differ only by raw against smoothed counts: the
+		// positions must agree well inside one standard uncertainty.
+		if d := math.Abs(p.TwoThetaDeg - q.TwoThetaDeg); d > 0.5*q.TwoThetaSUDeg {
+			t.Errorf("peak %d: %.4f° with uncertainties, %.4f ± %.4f° without", i, p.TwoThetaDeg, q.TwoThetaDeg, q.TwoThetaSUDeg)
+		}
+	}
+}
