@@ -87,3 +87,31 @@ func TestApproximantsRecognised(t *testing.T) {
 		})
 	}
 }
+
+func TestApproximantOfIcosahedralPhaseInSameList(t *testing.T) {
+	// A P-type icosahedral phase with a_R = 5.20 Å, away from every
+	// reference constant, next to its own 1/1 approximant (a = 2.7528·a_R
+	// = 14.31 Å, primitive): the cubic phase must be named an approximant
+	// of the icosahedral phase found in the same list (constructed case).
+	const aR = 5.20
+	f11 := 2 * (1 + tau) / math.Sqrt(2+tau)
+	ico, _ := icosahedralPeaks(projectFamilies("P", 8, 0.45), aR, cuKa1, 0.42, 20, 100, 0)
+	approx := approximantPeaks("P", aR*f11, f11)
+	peaks := append(append([]indexing.Peak(nil), ico...), approx...)
+	res, err := indexing.Index(peaks, cuKa1, indexing.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var gotIco, gotApprox bool
+	for _, ph := range res.Phases {
+		if ph.Kind == indexing.Icosahedral && math.Abs(ph.QuasilatticeConstantA-aR) < 0.002 {
+			gotIco = true
+		}
+		if ph.Kind == indexing.Approximant && ph.Order == "1/1" && math.Abs(ph.AA-aR*f11) < 0.003 && ph.ApproximantOf == "icosahedral phase in this list" {
+			gotApprox = true
+		}
+	}
+	if !gotIco || !gotApprox {
+		t.Errorf("phases %+v; want icosahedral a_R = %.2f Å and its 1/1 approximant", res.Phases, aR)
+	}
+}

@@ -20,6 +20,10 @@ const (
 	minExceed = 8
 	// Fewest random lists with any solution for a tail to be fitted.
 	minTail = 16
+	// Most random lists the exponential tail is fitted to: a quarter of
+	// those with a solution, at most this many, so that the threshold moves
+	// into the tail as more lists are drawn.
+	tailPoints = 64
 	// Buckets of the 2θ range of the random lists, degrees.
 	rangeBucketDeg = 5
 )
@@ -118,12 +122,12 @@ func nullScores(m *model, key nullKey, cfg searchConfig, size int) []float64 {
 
 // tailChance estimates P(S_null ≥ s) from null scores sorted descending:
 // the empirical fraction when at least minExceed lists reach s, otherwise
-// an exponential tail fitted to the upper quarter of the lists that found
-// any solution at all (score > 0),
+// an exponential tail fitted to the best of the lists that found any
+// solution at all (score > 0),
 //
 //	P(S ≥ s) ≈ (k/K) · exp(−(s − u)/θ),  u = k-th largest score, θ = mean excess over u
 //
-// with K lists in all, K₊ of them positive and k = K₊/4. With fewer than
+// with K lists in all, K₊ of them positive and k = min(K₊/4, tailPoints). With fewer than
 // minTail positive lists there is no tail to fit and the estimate is
 // (exceedances + 1)/(K + 1).
 //
@@ -138,7 +142,7 @@ func tailChance(null []float64, s float64) (float64, string) {
 	if positive < minTail {
 		return float64(exceed+1) / float64(k+1), fmt.Sprintf("%d of %d random lists scored as well", exceed, k)
 	}
-	top := positive / 4
+	top := min(positive/4, tailPoints)
 	u := null[top]
 	var mean float64
 	for _, v := range null[:top] {

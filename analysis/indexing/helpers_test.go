@@ -1,8 +1,10 @@
 package indexing_test
 
 import (
+	"fmt"
 	"math"
 	"sort"
+	"sync"
 
 	"meltbook/analysis/indexing"
 )
@@ -28,12 +30,19 @@ type projectedFamily struct {
 // with explicit 6×3 matrices whose rows point to the vertices of an
 // icosahedron with a 5-fold axis along z (parallel space) and to the
 // Galois-conjugate vertices (perpendicular space), each row of length 1/√2,
-// and groups them by the two lengths.
+// and groups them by the two lengths. The enumeration meets in the middle:
+// the projections of the first three and of the last three coordinates are
+// listed separately and paired where their perpendicular parts nearly
+// cancel. Results are cached per bound.
 //
 // Reference: the cut-and-project construction of the icosahedral module
 // (V. Elser, Acta Cryst. A42, 36 (1986)); lattice types after J. W. Cahn,
 // D. Shechtman, D. Gratias, J. Mater. Res. 1, 13 (1986).
 func projectFamilies(lattice string, maxPar, maxPerp float64) []projectedFamily {
+	key := fmt.Sprintf("%s %g %g", lattice, maxPar, maxPerp)
+	if v, ok := familyCache.Load(key); ok {
+		return v.([]projectedFamily)
+	}
 	var par, perp [6][3]float64
 	s5 := math.Sqrt(5)
 	par[0], perp[0] = [3]float64{0, 0, 1}, [3]float64{0, 0, 1}
@@ -42,60 +51,100 @@ func projectFamilies(lattice string, maxPar, maxPerp float64) []projectedFamily 
 		par[k+1] = [3]float64{2 / s5 * math.Cos(phi), 2 / s5 * math.Sin(phi), 1 / s5}
 		perp[k+1] = [3]float64{2 / s5 * math.Cos(2*phi), 2 / s5 * math.Sin(2*phi), -1 / s5}
 	}
-	r2 := 4 * (maxPar*maxPar + maxPerp*maxPerp) // bound on |2n|²
+	// The 6×6 matrix is orthogonal, so |n|² = |G∥|² + |G⊥|² bounds n; the
+	// halves hold v = 2n.
+	r2 := 4 * (maxPar*maxPar + maxPerp*maxPerp)
 	lim := int(math.Sqrt(r2))
-	var fams []projectedFamily
-	var v [6]int // 2n
-	var rec func(i, sq int)
-	rec = func(i, sq int) {
-		if i < 6 {
-			for x := -lim; x <= lim; x++ {
-				if float64(sq+x*x) <= r2 {
-					v[i] = x
-					rec(i+1, sq+x*x)
+	type half struct {
+		v         [3]int
+		par, perp [3]float64
+		sq        int
+	}
+	halves := func(first int) []half {
+		var out []half
+		for a := -lim; a <= lim; a++ {
+			for b := -lim; b <= lim; b++ {
+				for c := -lim; c <= lim; c++ {
+					sq := a*a + b*b + c*c
+					if float64(sq) > r2 {
+						continue
+					}
+					h := half{v: [3]int{a, b, c}, sq: sq}
+					for i, x := range h.v {
+						for k := 0; k < 3; k++ {
+							h.par[k] += float64(x) / 2 * par[first+i][k] / math.Sqrt2
+							h.perp[k] += float64(x) / 2 * perp[first+i][k] / math.Sqrt2
+						}
+					}
+					out = append(out, h)
 				}
 			}
-			return
 		}
-		odd, sum := 0, 0
-		for _, x := range v {
-			odd += x & 1
-			sum += x
-		}
-		switch {
-		case v == [6]int{}:
-			return
-		case lattice == "P" && odd != 0:
-			return
-		case lattice == "I" && (odd != 0 || (sum/2)%2 != 0):
-			return
-		case lattice == "F" && odd != 0 && odd != 6:
-			return
-		}
-		var gp, gq [3]float64
-		for b := 0; b < 6; b++ {
-			for c := 0; c < 3; c++ {
-				gp[c] += float64(v[b]) / 2 * par[b][c] / math.Sqrt2
-				gq[c] += float64(v[b]) / 2 * perp[b][c] / math.Sqrt2
-			}
-		}
-		lp := math.Sqrt(gp[0]*gp[0] + gp[1]*gp[1] + gp[2]*gp[2])
-		lq := math.Sqrt(gq[0]*gq[0] + gq[1]*gq[1] + gq[2]*gq[2])
-		if lp > maxPar || lq > maxPerp {
-			return
-		}
-		for k := range fams {
-			if math.Abs(fams[k].par-lp) < 1e-7 && math.Abs(fams[k].perp-lq) < 1e-7 {
-				fams[k].mult++
-				return
-			}
-		}
-		fams = append(fams, projectedFamily{par: lp, perp: lq, mult: 1, odd: odd == 6})
+		return out
 	}
-	rec(0, 0)
+	cell := func(p [3]float64) [3]int {
+		return [3]int{int(math.Floor(p[0] / maxPerp)), int(math.Floor(p[1] / maxPerp)), int(math.Floor(p[2] / maxPerp))}
+	}
+	grid := map[[3]int][]half{}
+	for _, h := range halves(3) {
+		c := cell(h.perp)
+		grid[c] = append(grid[c], h)
+	}
+	var fams []projectedFamily
+	for _, a := range halves(0) {
+		c := cell([3]float64{-a.perp[0], -a.perp[1], -a.perp[2]})
+		for dx := -1; dx <= 1; dx++ {
+			for dy := -1; dy <= 1; dy++ {
+				for dz := -1; dz <= 1; dz++ {
+					for _, b := range grid[[3]int{c[0] + dx, c[1] + dy, c[2] + dz}] {
+						v := [6]int{a.v[0], a.v[1], a.v[2], b.v[0], b.v[1], b.v[2]}
+						odd, sum := 0, 0
+						for _, x := range v {
+							odd += x & 1
+							sum += x
+						}
+						switch {
+						case v == [6]int{}:
+							continue
+						case lattice == "P" && odd != 0:
+							continue
+						case lattice == "I" && (odd != 0 || (sum/2)%2 != 0):
+							continue
+						case lattice == "F" && odd != 0 && odd != 6:
+							continue
+						}
+						var gp, gq [3]float64
+						for k := 0; k < 3; k++ {
+							gp[k] = a.par[k] + b.par[k]
+							gq[k] = a.perp[k] + b.perp[k]
+						}
+						lp := math.Sqrt(gp[0]*gp[0] + gp[1]*gp[1] + gp[2]*gp[2])
+						lq := math.Sqrt(gq[0]*gq[0] + gq[1]*gq[1] + gq[2]*gq[2])
+						if lp > maxPar || lq > maxPerp {
+							continue
+						}
+						found := false
+						for k := range fams {
+							if math.Abs(fams[k].par-lp) < 1e-7 && math.Abs(fams[k].perp-lq) < 1e-7 {
+								fams[k].mult++
+								found = true
+								break
+							}
+						}
+						if !found {
+							fams = append(fams, projectedFamily{par: lp, perp: lq, mult: 1, odd: odd == 6})
+						}
+					}
+				}
+			}
+		}
+	}
 	sort.Slice(fams, func(i, j int) bool { return fams[i].par < fams[j].par })
+	familyCache.Store(key, fams)
 	return fams
 }
+
+var familyCache sync.Map
 
 // bragg returns 2θ in degrees for 1/d = q (Å⁻¹), and false when unreachable.
 func bragg(q, lambda float64) (float64, bool) {

@@ -213,7 +213,9 @@ type ModelSummary struct {
 // rest is indexed again, up to Options.MaxPhases times.
 //
 // Peaks need 2θ in (0°, 180°) and a finite intensity ≥ 0; at least three
-// peaks are needed. Peaks need not be sorted.
+// peaks are needed. Peaks need not be sorted; those in the result are in
+// increasing 2θ. An icosahedral phase needs at least five indexed peaks, a
+// cubic one three.
 //
 // Reference: see the package documentation.
 func Index(peaks []Peak, wavelengthA float64, opts Options) (Result, error) {

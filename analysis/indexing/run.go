@@ -85,6 +85,7 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 	res := Result{WavelengthA: lambda, Phases: []Phase{}, Unexplained: []Peak{}, Models: []ModelSummary{}}
 	remaining := peaks
 	var found []float64
+	var taken []takenPhase
 	for round := 0; round < opts.MaxPhases && len(remaining) >= minIndexed(Cubic); round++ {
 		var all []scored
 		for _, m := range models(opts, found) {
@@ -126,6 +127,7 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 		b := all[best]
 		ph := buildPhase(b, remaining, lambda, total)
 		res.Phases = append(res.Phases, ph)
+		taken = append(taken, takenPhase{b, remaining})
 		if b.m.kind == Icosahedral {
 			found = append(found, ph.QuasilatticeConstantA)
 		}
@@ -137,6 +139,7 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 		}
 		remaining = rest
 	}
+	relabelApproximants(res.Phases, taken, found, lambda, opts)
 	res.Unexplained = append(res.Unexplained, remaining...)
 	sort.SliceStable(res.Phases, func(i, j int) bool {
 		return res.Phases[i].ExplainedIntensity > res.Phases[j].ExplainedIntensity
@@ -263,4 +266,46 @@ func phasonTrend(x, y []float64) *PhasonTrend {
 	}
 	sig := math.Sqrt(rss / (n - 2) / sxx)
 	return &PhasonTrend{Slope: slope, SlopeUncertainty: sig, Flagged: len(x) >= 5 && slope > 0 && slope > 3*sig}
+}
+
+// takenPhase keeps what a reported phase was built from.
+type takenPhase struct {
+	s     scored
+	peaks []Peak
+}
+
+// relabelApproximants marks as approximants the cubic phases, found before
+// the icosahedral phase of the same list, whose constant and strong lines
+// fit an approximant of that icosahedral phase.
+func relabelApproximants(phases []Phase, taken []takenPhase, found []float64, lambda float64, opts Options) {
+	if len(found) == 0 {
+		return
+	}
+	refs := make([]Reference, len(found))
+	for i, aR := range found {
+		refs[i] = Reference{Name: "icosahedral phase in this list", QuasilatticeConstantA: aR}
+	}
+	aw := approximantWindows(refs, opts.ApproximantOrders, opts.ApproximantTolerance)
+	for i, t := range taken {
+		if t.s.m.kind != Cubic {
+			continue
+		}
+		m := &model{kind: Approximant, approx: aw, gs: t.s.m.gs, lines: t.s.m.lines}
+		sol := t.s.sol
+		if sol.approx = m.approximantWindow(sol.a); sol.approx < 0 {
+			continue
+		}
+		lattice := false
+		for _, l := range approximantLattices {
+			lattice = lattice || l.String() == t.s.m.lattice
+		}
+		if !lattice || !m.strongLinesIcosahedral(t.peaks, sol, lambda) {
+			continue
+		}
+		w := aw[sol.approx]
+		phases[i].Kind = Approximant
+		phases[i].Order = w.order.String()
+		phases[i].ApproximantOf = w.reference
+		phases[i].IdealAA = w.ideal
+	}
 }
