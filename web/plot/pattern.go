@@ -198,6 +198,14 @@ func (pp *PatternPlot) SVG() ([]byte, error) {
 	w.raw(" ")
 	w.num(patternUnits, 0)
 	w.raw(`">`)
+	// A clear sheet under the curves so that the whole area takes the
+	// pointer, for zooming and dragging.
+	w.raw(`<rect class="pointer-sheet" fill="#fff" fill-opacity="0"`)
+	w.numAttr("x", t0, tPrec)
+	w.raw(` y="0"`)
+	w.numAttr("width", t1-t0, tPrec)
+	w.numAttr("height", patternUnits, 0)
+	w.raw(`/>`)
 	if p.Background != nil {
 		w.series(`fill="none" stroke="#0072B2" stroke-width="1.2" stroke-dasharray="5 3" class="background"`, p.TwoThetaDeg, p.Background, scaleY, tPrec)
 	}
