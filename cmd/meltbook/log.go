@@ -77,7 +77,7 @@ value is wrong. The bench cautions for the elements and the process follow.`,
 	f.StringVar(&file, "file", "", "read the runs from this run file (- for standard input)")
 	f.BoolVar(&check, "check", false, "check the runs and show what would be logged, without writing")
 	for _, rf := range runFields {
-		help := rf.help + ", e.g. " + rf.example
+		help := rf.helpText()
 		switch {
 		case rf.key == "no-default-loss":
 			f.Bool(rf.key, false, "plan no rule-of-thumb evaporation allowances for Mg, Zn, Mn, Li, Ca")
@@ -187,8 +187,8 @@ func (a *app) logRuns(ctx context.Context, runs []*builtRun, check bool) error {
 }
 
 // assignCodes gives each run without a code the next free one for its
-// prefix, skipping codes other runs of the batch name, and refuses a batch
-// that names one code twice.
+// prefix, after the highest one in the notebook or given in the batch, and
+// refuses a batch that names one code twice.
 func assignCodes(ctx context.Context, st *store.Store, runs []*builtRun) error {
 	taken := map[string]*builtRun{}
 	for _, r := range runs {
@@ -214,6 +214,12 @@ func assignCodes(ctx context.Context, st *store.Store, runs []*builtRun) error {
 			}
 			if n, err = strconv.Atoi(strings.TrimPrefix(first, r.prefix+"-")); err != nil {
 				return fmt.Errorf("next code for prefix %s: unexpected %q", r.prefix, first)
+			}
+			// Follow the highest code the batch itself gives with this prefix.
+			for code := range taken {
+				if k, err := strconv.Atoi(strings.TrimPrefix(code, r.prefix+"-")); err == nil && strings.HasPrefix(code, r.prefix+"-") && k >= n {
+					n = k + 1
+				}
 			}
 		}
 		code := meltCode(r.prefix, n)

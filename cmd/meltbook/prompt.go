@@ -33,12 +33,12 @@ func (p *prompter) ask(question string) (answer string, ok bool) {
 // blank is allowed); it returns "" for a skipped field.
 func (p *prompter) askField(key, extra string, required bool) (string, error) {
 	f, _ := runFieldByKey(key)
-	question := fmt.Sprintf("%s (%s, e.g. %s)%s: ", key, f.help, f.example, extra)
+	question := fmt.Sprintf("%s (%s%s): ", key, f.helpText(), extra)
 	for {
 		answer, ok := p.ask(question)
 		if !ok {
 			if required {
-				return "", meltbook.Errorf(meltbook.Invalid, key, "the input ended before the %s was given", key)
+				return "", meltbook.Errorf(meltbook.Invalid, "--"+key, "missing, and the input ended before it was given")
 			}
 			return "", nil
 		}

@@ -46,7 +46,7 @@ var runFields = buildRunFields()
 
 func buildRunFields() []runField {
 	fs := []runField{
-		{key: "code", help: "melt code, unique in the notebook (default: the next free code with --prefix)", example: "QX-0042"},
+		{key: "code", help: "melt code, unique in the notebook; without one the next free code with the prefix is used", example: "QX-0042"},
 		{key: "prefix", help: "prefix of a generated code", example: defaultCodePrefix},
 		{key: "composition", help: "nominal composition as weighed out", example: "Al63Cu25Fe12"},
 		{key: "mass", help: "target button mass", example: "10g"},
@@ -91,6 +91,15 @@ func paramExample(spec meltbook.ParamSpec) string {
 		"thickness": "30um", "width": "2mm",
 	}
 	return examples[spec.Name]
+}
+
+// helpText is the field's help with an example, unless the help already
+// carries one.
+func (f runField) helpText() string {
+	if strings.Contains(f.help, "e.g.") {
+		return f.help
+	}
+	return f.help + ", e.g. " + f.example
 }
 
 func runFieldByKey(key string) (runField, bool) {
@@ -562,7 +571,7 @@ func (b *builtRun) step(kind meltbook.StepKind, one map[string]runValue) (*meltb
 			extra = append(extra, v)
 		}
 	}
-	est, params, err := estimateCooling(b.parsed.Atomic, st, extra)
+	est, params, err := estimateCooling(b.parsed.Atomic, st, extra, b.where["thickness"])
 	if err != nil {
 		return nil, err
 	}
@@ -576,8 +585,9 @@ func (b *builtRun) step(kind meltbook.StepKind, one map[string]runValue) (*meltb
 // estimateCooling estimates the cooling rate of a melt-spin step that
 // records a ribbon thickness, returning the cooling-rate and
 // cooling-regime parameters to store; nil without a thickness. extra holds
-// the estimate's inputs that are not step parameters (coolingInputKeys).
-func estimateCooling(c composition.Composition, st *meltbook.ProcessStep, extra []runValue) (*cooling.Estimate, []meltbook.Param, error) {
+// the estimate's inputs that are not step parameters (coolingInputKeys);
+// where names the thickness as typed, for an estimate that cannot be made.
+func estimateCooling(c composition.Composition, st *meltbook.ProcessStep, extra []runValue, where string) (*cooling.Estimate, []meltbook.Param, error) {
 	thickness, ok := st.Param("thickness")
 	if !ok {
 		if len(extra) > 0 {
@@ -589,7 +599,7 @@ func estimateCooling(c composition.Composition, st *meltbook.ProcessStep, extra 
 	in := cooling.Input{ThicknessMetres: thickness.SI}
 	mat, err := cooling.MaterialFromComposition(c)
 	if err != nil {
-		return nil, nil, meltbook.Errorf(meltbook.Invalid, "composition", "cooling estimate: %v", err)
+		return nil, nil, meltbook.Errorf(meltbook.Invalid, where, "cooling estimate: %v", err)
 	}
 	meltNote, wheelNote, hNote, matNote := " (assumed)", " (assumed)", " (default)", " from the elements"
 	meltK, _ := quantity.Parse(defaultMeltTemperature, quantity.Temperature)
@@ -626,7 +636,7 @@ func estimateCooling(c composition.Composition, st *meltbook.ProcessStep, extra 
 	}
 	est, err := cooling.Rate(in)
 	if err != nil {
-		return nil, nil, meltbook.Errorf(meltbook.Invalid, "cooling estimate", "%v", err)
+		return nil, nil, meltbook.Errorf(meltbook.Invalid, where, "cooling estimate: %v", err)
 	}
 	regime := fmt.Sprintf("%s, Biot number %.3g; h %.3g W/(m²·K)%s; melt %s%s, wheel %s%s; ρ %.4g kg/m³, c_p %.4g J/(kg·K), k %.4g W/(m·K)%s",
 		est.Regime, est.Biot, est.HeatTransferWPerM2K, hNote, meltK, meltNote, wheelK, wheelNote,
