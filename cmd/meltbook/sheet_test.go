@@ -24,7 +24,7 @@ func sheetNotebook(t *testing.T) string {
 	}
 	st := sheetOpen(t, path)
 	m := &meltbook.Melt{Code: "QX-0001", Operator: "Ines Varga", CompositionEntered: "Al63Cu25Fe12", TargetMassGrams: 10,
-		Nominal: []meltbook.ElementFraction{{Element: "Al", Fraction: 0.63}, {Element: "Cu", Fraction: 0.25}, {Element: "Fe", Fraction: 0.12}},
+		Nominal:   []meltbook.ElementFraction{{Element: "Al", Fraction: 0.63}, {Element: "Cu", Fraction: 0.25}, {Element: "Fe", Fraction: 0.12}},
 		CreatedAt: time.Date(2026, 1, 5, 10, 0, 0, 0, time.UTC)}
 	if err := st.CreateMelt(context.Background(), "Ines Varga", m); err != nil {
 		t.Fatal(err)
@@ -134,9 +134,9 @@ func TestSheetMessyImport(t *testing.T) {
 		t.Fatal(err)
 	}
 	spin := sheetStep(t, r101, meltbook.MeltSpin)
-	sheetParam(t, spin, "thickness", 35.5e-6, 1e-12)      // "35,5" under "Thickness (um)": 35.5 × 10⁻⁶ m (SI prefix µ, SI Brochure)
-	sheetParam(t, spin, "wheel-speed", 30, 1e-9)          // "30" under "(m/s)"
-	sheetParam(t, spin, "orifice", 0.8e-3, 1e-12)         // "0,8 mm" = 0.8 × 10⁻³ m
+	sheetParam(t, spin, "thickness", 35.5e-6, 1e-12)       // "35,5" under "Thickness (um)": 35.5 × 10⁻⁶ m (SI prefix µ, SI Brochure)
+	sheetParam(t, spin, "wheel-speed", 30, 1e-9)           // "30" under "(m/s)"
+	sheetParam(t, spin, "orifice", 0.8e-3, 1e-12)          // "0,8 mm" = 0.8 × 10⁻³ m
 	sheetParam(t, spin, "melt-temperature", 1523.15, 1e-9) // 1250 °C + 273.15 K (SI Brochure)
 	if !r101.Melt.CreatedAt.Equal(time.Date(2026, 3, 2, 0, 0, 0, 0, time.Local)) {
 		t.Errorf("RB-101 made %v, want 2026-03-02", r101.Melt.CreatedAt)
