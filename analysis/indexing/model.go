@@ -238,17 +238,15 @@ func (m *model) match(pp *preparedPeak, a float64) (idx int, resid, p float64) {
 	return idx, resid, p
 }
 
-// score returns S = Σ −ln p over the peaks and the number indexed.
-func (m *model) score(prep []preparedPeak, a float64) (s float64, n int) {
+// score returns S = Σ −ln p over the peaks indexed at scale a.
+func (m *model) score(prep []preparedPeak, a float64) float64 {
 	prod := 1.0
 	for i := range prep {
-		idx, _, p := m.match(&prep[i], a)
-		if idx >= 0 {
-			n++
+		if idx, _, p := m.match(&prep[i], a); idx >= 0 {
 			prod *= p
 		}
 	}
-	return -math.Log(prod), n
+	return -math.Log(prod)
 }
 
 // hits reports whether some line lies within tolerance of the peak at

@@ -11,9 +11,8 @@ type solution struct {
 	sigA, sigZ float64 // standard uncertainties
 	score      float64
 	indexed    int
-	assign     []int     // per peak: line index or -1
-	resid      []float64 // per peak: residual in degrees (0 when not indexed)
-	approx     int       // approximant window index, -1 otherwise
+	assign     []int // per peak: line index or -1
+	approx     int   // approximant window index, -1 otherwise
 }
 
 // searchConfig carries what a search needs besides the model.
@@ -45,10 +44,7 @@ func anchors(peaks []Peak) []int {
 // puts two strong peaks on lines.
 func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) {
 	prep := prepare(peaks, cfg.lambda, 0, cfg.tol, make([]preparedPeak, 0, len(peaks)))
-	type cand struct {
-		a, s float64
-		n    int
-	}
+	type cand struct{ a, s float64 }
 	var cands []cand
 	anc := anchors(peaks)
 	for _, i := range anc {
@@ -85,16 +81,11 @@ func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) 
 		}
 	}
 	for i := range uniq {
-		uniq[i].s, uniq[i].n = m.score(prep, uniq[i].a)
+		uniq[i].s = m.score(prep, uniq[i].a)
 	}
 	sort.Slice(uniq, func(i, j int) bool { return uniq[i].s > uniq[j].s })
 	best.score = -1
-	tried := 0
-	for _, c := range uniq {
-		if tried == refineCount {
-			break
-		}
-		tried++
+	for _, c := range uniq[:min(len(uniq), refineCount)] {
 		sol, good := m.refine(peaks, c.a, cfg)
 		if good && sol.score > best.score {
 			best = sol
@@ -107,15 +98,13 @@ func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) 
 func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, bool) {
 	prep := make([]preparedPeak, 0, len(peaks))
 	z := 0.0
-	var sol solution
 	for iter := 0; iter < 4; iter++ {
 		prep = prepare(peaks, cfg.lambda, z, cfg.tol, prep)
-		sol = m.assign(prep, a, z)
+		sol := m.assign(prep, a, z)
 		if sol.indexed < 2 {
 			return sol, false
 		}
-		na, nz, sa, sz := m.leastSquares(peaks, sol.assign, a, z, cfg)
-		sol.sigA, sol.sigZ = sa, sz
+		na, nz, _, _ := m.leastSquares(peaks, sol.assign, a, z, cfg)
 		if math.Abs(na-a) < 1e-9*a && math.Abs(nz-z) < 1e-7 {
 			break
 		}
@@ -126,10 +115,10 @@ func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, boo
 	}
 	prep = prepare(peaks, cfg.lambda, z, cfg.tol, prep)
 	final := m.assign(prep, a, z)
-	final.sigA, final.sigZ = sol.sigA, sol.sigZ
 	if final.indexed < 2 {
 		return final, false
 	}
+	_, _, final.sigA, final.sigZ = m.leastSquares(peaks, final.assign, a, z, cfg)
 	if m.kind == Approximant {
 		final.approx = m.approximantWindow(a)
 		if final.approx < 0 || !m.strongLinesIcosahedral(peaks, final, cfg.lambda) {
@@ -141,13 +130,12 @@ func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, boo
 
 // assign matches every peak at (a, z) and scores the result.
 func (m *model) assign(prep []preparedPeak, a, z float64) solution {
-	sol := solution{a: a, z: z, assign: make([]int, len(prep)), resid: make([]float64, len(prep)), approx: -1}
+	sol := solution{a: a, z: z, assign: make([]int, len(prep)), approx: -1}
 	for i := range prep {
-		idx, r, p := m.match(&prep[i], a)
+		idx, _, p := m.match(&prep[i], a)
 		sol.assign[i] = idx
 		if idx >= 0 {
 			sol.indexed++
-			sol.resid[i] = r
 			sol.score -= math.Log(p)
 		}
 	}
