@@ -242,12 +242,18 @@ func namesCrystal(text string) bool {
 			return true
 		}
 	}
-	word := strings.FieldsFunc(text, func(r rune) bool { return r == ' ' || r == '-' })[0]
-	word = strings.Trim(word, "()")
+	words := strings.FieldsFunc(text, func(r rune) bool { return r == ' ' || r == '-' })
+	if len(words) == 0 {
+		return false
+	}
+	word := strings.Trim(words[0], "()")
 	if strukturberichtRE.MatchString(word) {
 		return true
 	}
 	fields := strings.Fields(low)
+	if len(fields) == 0 {
+		return false
+	}
 	switch fields[0] {
 	case "fcc", "bcc", "hcp":
 		return len(fields) > 1
