@@ -72,9 +72,9 @@ func TestHeadings(t *testing.T) {
 		{"Heat treatment", "anneal", ""},
 		{"XRD result", "outcome", ""},
 		{"Remarks", "notes", ""},
-		{"t", "", ""},         // thickness or melt temperature: not guessed
-		{"colour", "", ""},    // no field
-		{"pressure", "", ""},  // ejection or chamber: not listed
+		{"t", "", ""},        // thickness or melt temperature: not guessed
+		{"colour", "", ""},   // no field
+		{"pressure", "", ""}, // ejection or chamber: not listed
 		{"Mass (kg)", "mass", "kg"},
 	} {
 		t.Run(c.heading, func(t *testing.T) {
