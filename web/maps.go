@@ -121,7 +121,7 @@ func (s *Server) readControls(q url.Values, samples []MapSample, withCorners boo
 	}
 	if t := strings.TrimSpace(c.Outside); t != "" {
 		v, err := strconv.ParseFloat(t, 64)
-		if err != nil || v < 0 || v > 100 {
+		if err != nil || !(v >= 0 && v <= 100) {
 			c.fail("outside", "write a share between 0 and 100 at.%%")
 		} else {
 			f.outside = v / 100

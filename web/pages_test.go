@@ -89,6 +89,9 @@ func TestMapControlsKeepWhatWasTyped(t *testing.T) {
 	if len(figures(t, body)) != 0 {
 		t.Error("a map was drawn from bad settings")
 	}
+	if res, _ := get(t, s, "/map?a=Al&b=Cu&c=Fe&outside=NaN"); res.StatusCode != http.StatusBadRequest {
+		t.Errorf("outside=NaN: %d, want 400", res.StatusCode)
+	}
 }
 
 func TestMapDataAndIsolines(t *testing.T) {
