@@ -8,7 +8,6 @@
 //
 //	srv, err := web.NewServer(web.Config{
 //		Notebook:     nb,                 // the store, through a small adapter (see Notebook)
-//		SizeMismatch: descriptor.Delta,   // optional: δ for the e/a-δ map
 //		Author:       os.Getenv("USER"),  // fills the author of new notes
 //		Log:          slog.New(slog.NewTextHandler(stderr, nil)),
 //	})

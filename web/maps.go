@@ -550,13 +550,11 @@ func (s *Server) descriptorMaps(w http.ResponseWriter, r *http.Request) {
 			continue
 		}
 		mk := plot.ScatterMarker{X: ea, Class: plot.ClassOf(m.Outcomes), Code: m.Code, Composition: plot.FormatComposition(m.Composition), ElectronsPerAtom: ea}
-		if s.cfg.SizeMismatch != nil {
-			if d, err := s.cfg.SizeMismatch(m.Composition); err == nil && finite(d) {
-				mk.Y, mk.Hover = d, "δ "+strconv.FormatFloat(d, 'f', 2, 64)+" %"
-				size.Markers = append(size.Markers, mk)
-			} else {
-				noDelta++
-			}
+		if d, err := s.cfg.SizeMismatch(m.Composition); err == nil && finite(d) {
+			mk.Y, mk.Hover = d, "δ "+strconv.FormatFloat(d, 'f', 2, 64)+" %"
+			size.Markers = append(size.Markers, mk)
+		} else {
+			noDelta++
 		}
 		if m.CoolingRateKPerS != nil && *m.CoolingRateKPerS > 0 {
 			mk.Y, mk.Hover = *m.CoolingRateKPerS, scientific(*m.CoolingRateKPerS)+" K/s"
@@ -584,13 +582,9 @@ func (s *Server) descriptorMaps(w http.ResponseWriter, r *http.Request) {
 	if f.scheme == nil {
 		eaMissing = "no valence scheme is set up, so no sample has an e/a"
 	}
-	if s.cfg.SizeMismatch == nil {
-		p.SizeNote = "δ is not available in this server."
-	} else {
-		p.SizeNote = join(fmt.Sprintf("%d of %d samples", len(size.Markers), counts.Shown), eaMissing, missing(noDelta, "δ"))
-		size.Notes = []string{p.SizeNote}
-		p.SizeSVG = template.HTML(size.SVG())
-	}
+	p.SizeNote = join(fmt.Sprintf("%d of %d samples", len(size.Markers), counts.Shown), eaMissing, missing(noDelta, "δ"))
+	size.Notes = []string{p.SizeNote}
+	p.SizeSVG = template.HTML(size.SVG())
 	p.RateNote = join(fmt.Sprintf("%d of %d samples", len(rate.Markers), counts.Shown), eaMissing, missing(noRate, "an estimated cooling rate"))
 	rate.Notes = []string{p.RateNote}
 	p.RateSVG = template.HTML(rate.SVG())

@@ -15,6 +15,7 @@ import (
 
 	"meltbook"
 	"meltbook/query"
+	"meltbook/web"
 )
 
 func TestMapPageMarkersPerOutcome(t *testing.T) {
@@ -453,5 +454,23 @@ func BenchmarkMapPage10000Gzip(b *testing.B) {
 			b.Fatal(w.Code)
 		}
 		b.SetBytes(int64(w.Body.Len()))
+	}
+}
+
+func TestSizeMismatchFromTheElementTable(t *testing.T) {
+	// δ of Al63Cu25Fe12 with CN12 radii Al 1.432, Cu 1.278, Fe 1.274 Å
+	// (Teatum, Gschneidner and Waber, LA-4003 (1968), as commonly quoted;
+	// from memory):
+	//   r̄ = 0.63·1.432 + 0.25·1.278 + 0.12·1.274 = 0.90216 + 0.3195 + 0.15288 = 1.37454
+	//   1 − r/r̄: Al −0.0418031, Cu 0.0702344, Fe 0.0731445
+	//   Σ x(…)² = 0.63·0.0017475 + 0.25·0.0049329 + 0.12·0.0053501
+	//           = 0.0011009 + 0.0012332 + 0.0006420 = 0.0029762
+	//   δ = 100·√0.0029762 = 5.4554 %
+	d, err := web.SizeMismatchCN12(fractions("Al", .63, "Cu", .25, "Fe", .12))
+	if err != nil || math.Abs(d-5.4554) > 0.001 {
+		t.Errorf("δ(Al63Cu25Fe12) = %v, %v; want 5.4554 %%", d, err)
+	}
+	if _, err := web.SizeMismatchCN12(fractions("Al", .5, "Og", .5)); err == nil {
+		t.Error("an element without a radius gave a δ")
 	}
 }

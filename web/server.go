@@ -20,6 +20,7 @@ import (
 	"github.com/go-chi/chi/v5/middleware"
 
 	"meltbook"
+	"meltbook/analysis/descriptor"
 	"meltbook/analysis/element"
 	"meltbook/query"
 )
@@ -36,7 +37,7 @@ type Config struct {
 	// the machine's local time.
 	Location *time.Location
 	// SizeMismatch computes the atomic size mismatch δ in percent of a
-	// composition for the e/a-δ map; nil leaves that map out.
+	// composition for the e/a-δ map; nil means SizeMismatchCN12.
 	SizeMismatch func([]meltbook.ElementFraction) (float64, error)
 	// Token, when set, must accompany every request (see the package
 	// documentation). When empty, Listen makes one for any address that is
@@ -77,6 +78,9 @@ func NewServer(cfg Config) (*Server, error) {
 	}
 	if cfg.MaxBodyBytes <= 0 {
 		cfg.MaxBodyBytes = DefaultMaxBodyBytes
+	}
+	if cfg.SizeMismatch == nil {
+		cfg.SizeMismatch = SizeMismatchCN12
 	}
 	if len(cfg.Schemes) == 0 {
 		names := append([]string{query.DefaultScheme}, element.SchemeNames()...)
@@ -234,6 +238,31 @@ func (s *Server) Shutdown(ctx context.Context) error {
 		return nil
 	}
 	return hs.Shutdown(ctx)
+}
+
+// SizeMismatchCN12 is the atomic size mismatch δ (%) of a composition from
+// the CN12 metallic radii of package element, by
+// descriptor.SizeMismatchPercent; fractions are taken relative to their
+// total. An element without a tabulated radius is an error naming it.
+func SizeMismatchCN12(comp []meltbook.ElementFraction) (float64, error) {
+	x := make([]float64, len(comp))
+	r := make([]float64, len(comp))
+	var total float64
+	for i, ef := range comp {
+		e, ok := element.BySymbol(ef.Element)
+		if !ok || !e.HasMetallicRadius() {
+			return 0, fmt.Errorf("no CN12 metallic radius for %s", ef.Element)
+		}
+		x[i], r[i] = ef.Fraction, e.MetallicRadiusCN12
+		total += ef.Fraction
+	}
+	if !(total > 0) {
+		return 0, errors.New("composition has no positive total")
+	}
+	for i := range x {
+		x[i] /= total
+	}
+	return descriptor.SizeMismatchPercent(x, r), nil
 }
 
 func isLoopback(host string) bool {
