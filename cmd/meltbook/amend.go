@@ -386,7 +386,7 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 		case "wheel-diameter":
 			continue
 		}
-		if step.Kind == meltbook.MeltSpin && contains(coolingInputKeys, f.name) {
+		if step.Kind == meltbook.MeltSpin && hasString(coolingInputKeys, f.name) {
 			extra, recompute = append(extra, v), true
 			continue
 		}
@@ -428,7 +428,7 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 	return st.AmendStep(ctx, a.operator(), step.ID, u, why)
 }
 
-func contains(list []string, s string) bool {
+func hasString(list []string, s string) bool {
 	for _, x := range list {
 		if x == s {
 			return true
@@ -448,11 +448,13 @@ func paramNames(kind meltbook.StepKind) string {
 }
 
 // recomputeCooling re-estimates the cooling rate of a melt-spin step as it
-// will be after the update, and adds the change to the update.
+// will be after the update, and adds the change to the update. Inputs of
+// the estimate given when the step was logged are kept unless extra gives
+// them anew.
 func recomputeCooling(rec *meltbook.MeltRecord, step *meltbook.ProcessStep, u *meltbook.StepUpdate, extra []runValue) error {
 	after := meltbook.ProcessStep{Kind: step.Kind}
 	for _, p := range step.Params {
-		if !contains(u.Unset, p.Name) && p.Name != "cooling-rate" && p.Name != "cooling-regime" {
+		if !hasString(u.Unset, p.Name) && p.Name != "cooling-rate" && p.Name != "cooling-regime" {
 			after.Params = append(after.Params, p)
 		}
 	}
@@ -471,7 +473,19 @@ func recomputeCooling(rec *meltbook.MeltRecord, step *meltbook.ProcessStep, u *m
 	for i, ef := range rec.Melt.Nominal {
 		c[i] = composition.Part{Element: ef.Element, Fraction: ef.Fraction}
 	}
-	_, params, err := estimateCooling(c, &after, extra)
+	_, thick := after.Param("thickness")
+	if regime, ok := step.Param("cooling-regime"); ok && thick {
+		for _, v := range givenCoolingInputs(regime.Text) {
+			again := false
+			for _, e := range extra {
+				again = again || e.key == v.key
+			}
+			if !again {
+				extra = append(extra, v)
+			}
+		}
+	}
+	_, params, err := estimateCooling(c, &after, extra, "thickness")
 	if err != nil {
 		return err
 	}

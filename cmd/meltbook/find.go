@@ -133,7 +133,7 @@ func filterFromFlags(cmd *cobra.Command) (meltbook.MeltFilter, error) {
 		}
 		return f, err
 	}
-	if !contains(store.KeptSchemes, f.Scheme) {
+	if !hasString(store.KeptSchemes, f.Scheme) {
 		s, err := element.LoadScheme(f.Scheme)
 		if err != nil {
 			return f, invalidFlag("--scheme", fmt.Sprintf("%v (the notebook keeps e/a under %s; other schemes come from a scheme file)", err, strings.Join(store.KeptSchemes, " and ")))
@@ -183,7 +183,7 @@ func printRows(w io.Writer, rows []query.Row, total int, wide bool) error {
 			oc = "-"
 		}
 		if !wide {
-			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r.Code, when(r.CreatedAt), r.Operator, r.Composition, oc)
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\n", r.Code, shownAt(r.CreatedAt), r.Operator, r.Composition, oc)
 			continue
 		}
 		ea, rate := "-", "-"
@@ -193,7 +193,7 @@ func printRows(w io.Writer, rows []query.Row, total int, wide bool) error {
 		if r.CoolingRateKPerS != nil {
 			rate = strconv.FormatFloat(*r.CoolingRateKPerS, 'g', 3, 64) + " K/s"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Code, when(r.CreatedAt), r.Operator, r.Composition, ea, rate, oc)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", r.Code, shownAt(r.CreatedAt), r.Operator, r.Composition, ea, rate, oc)
 	}
 	if err := tw.Flush(); err != nil {
 		return err

@@ -259,14 +259,14 @@ func printLogged(w io.Writer, verb string, r *builtRun) {
 	if len(kinds) > 0 {
 		steps = "steps: " + strings.Join(kinds, ", ")
 	}
-	fmt.Fprintf(w, "%s %s: %s, button %s; %s\n", verb, m.Code, r.parsed.Atomic.Format(2), grams(m.TargetMassGrams), steps)
+	fmt.Fprintf(w, "%s %s: %s, button %s; %s\n", verb, m.Code, r.parsed.Atomic.Format(2), gramsText(m.TargetMassGrams), steps)
 	if r.estimate != nil {
 		fmt.Fprintf(w, "  estimated cooling rate %.3g K/s, %s (Biot number %.3g)\n", r.estimate.RateKPerS, r.estimate.Regime, r.estimate.Biot)
 	}
 }
 
 // grams shows a mass in grams to 0.1 mg.
-func grams(g float64) string { return strconv.FormatFloat(g, 'f', 4, 64) + " g" }
+func gramsText(g float64) string { return strconv.FormatFloat(g, 'f', 4, 64) + " g" }
 
 // runCautions are the bench cautions for the elements and for arc melting
 // and melt spinning, with the deferral to local rules once, last.

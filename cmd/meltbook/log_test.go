@@ -32,7 +32,7 @@ func exportedDocument(t *testing.T, nb *testNotebook) store.Document {
 	return d
 }
 
-func param(t *testing.T, st store.DocStep, name string) meltbook.Param {
+func stepParam(t *testing.T, st store.DocStep, name string) meltbook.Param {
 	t.Helper()
 	p, ok := st.Param(name)
 	if !ok {
@@ -41,7 +41,7 @@ func param(t *testing.T, st store.DocStep, name string) meltbook.Param {
 	return p
 }
 
-func near(t *testing.T, what string, got, want, relTol float64) {
+func closeTo(t *testing.T, what string, got, want, relTol float64) {
 	t.Helper()
 	if math.Abs(got-want) > relTol*math.Abs(want) {
 		t.Errorf("%s = %.9g, want %.9g", what, got, want)
@@ -71,7 +71,7 @@ func TestLogFromFlags(t *testing.T) {
 	planned := map[string]float64{"Al": 4.294006, "Cu": 4.013134, "Fe": 1.692860}
 	weighed := map[string]float64{"Al": 4.2941, "Cu": 4.0131, "Fe": 1.6929} // typed; 1692.9 mg = 1.6929 g
 	for _, l := range m.WeighOut {
-		near(t, "planned "+l.Element, l.PlannedGrams, planned[l.Element], 1e-6)
+		closeTo(t, "planned "+l.Element, l.PlannedGrams, planned[l.Element], 1e-6)
 		if l.WeighedGrams == nil || *l.WeighedGrams != weighed[l.Element] {
 			t.Errorf("weighed %s = %v, want %g", l.Element, l.WeighedGrams, weighed[l.Element])
 		}
@@ -111,17 +111,17 @@ func TestLogFromFlags(t *testing.T) {
 		// wheel at 20 °C (hand-worked).
 		{spin, "cooling-rate", 1.28125e6, "K/s"},
 	} {
-		p := param(t, c.st, c.name)
-		near(t, string(c.st.Kind)+"."+c.name, p.SI, c.si, 1e-9)
+		p := stepParam(t, c.st, c.name)
+		closeTo(t, string(c.st.Kind)+"."+c.name, p.SI, c.si, 1e-9)
 		if p.Unit != c.unit {
 			t.Errorf("%s unit %q, want %q (the unit typed)", c.name, p.Unit, c.unit)
 		}
 	}
-	if p := param(t, arc, "atmosphere"); p.Text != "Ar after Ti getter" {
+	if p := stepParam(t, arc, "atmosphere"); p.Text != "Ar after Ti getter" {
 		t.Errorf("atmosphere %q", p.Text)
 	}
 	// Bi = h·t/k = 1e5 · 30e-6 / 50 = 0.06 < 0.1: Newtonian (hand-worked).
-	if r := param(t, spin, "cooling-regime").Text; !strings.HasPrefix(r, "newtonian, Biot number 0.06;") {
+	if r := stepParam(t, spin, "cooling-regime").Text; !strings.HasPrefix(r, "newtonian, Biot number 0.06;") {
 		t.Errorf("cooling regime %q", r)
 	}
 	if !strings.Contains(spin.Notes, "3000 rpm") || !strings.Contains(spin.Notes, "200 mm") {
@@ -250,17 +250,17 @@ func TestLogPrompts(t *testing.T) {
 	if len(steps) != 2 {
 		t.Fatalf("steps %+v", steps)
 	}
-	if p := param(t, store.DocStep(steps[0]), "current"); p.SI != 140 {
+	if p := stepParam(t, store.DocStep(steps[0]), "current"); p.SI != 140 {
 		t.Errorf("the --arc-current flag given with the prompts was lost: %+v", p)
 	}
-	if p := param(t, store.DocStep(steps[0]), "atmosphere"); p.Text != "Ar" {
+	if p := stepParam(t, store.DocStep(steps[0]), "atmosphere"); p.Text != "Ar" {
 		t.Errorf("arc atmosphere %q, want Ar", p.Text)
 	}
 	if _, ok := steps[0].Param("chamber-pressure"); ok {
 		t.Error("a skipped prompt recorded a value")
 	}
 	// v = π · 0.25 m · 2500/60 s⁻¹ = 32.7249235 m/s (hand-worked).
-	near(t, "wheel speed", param(t, store.DocStep(steps[1]), "wheel-speed").SI, 32.72492347489368, 1e-9)
+	closeTo(t, "wheel speed", stepParam(t, store.DocStep(steps[1]), "wheel-speed").SI, 32.72492347489368, 1e-9)
 
 	// At the end of the input a required value is an error, not a guess.
 	_, errOut, code = nb.run("Al63Cu25Fe12\n", "log")

@@ -36,7 +36,7 @@ mass:         8g
 prefix:       QX
 `
 
-func writeFile(t *testing.T, name, text string) string {
+func tempFile(t *testing.T, name, text string) string {
 	t.Helper()
 	path := filepath.Join(t.TempDir(), name)
 	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
@@ -47,7 +47,7 @@ func writeFile(t *testing.T, name, text string) string {
 
 func TestLogFromFile(t *testing.T) {
 	nb := newNotebook(t)
-	path := writeFile(t, "week18.runs", runFile)
+	path := tempFile(t, "week18.runs", runFile)
 	out := nb.ok("log", "--file", path)
 	golden(t, "log-file.txt", out)
 	d := exportedDocument(t, nb)

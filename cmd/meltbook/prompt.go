@@ -153,8 +153,8 @@ func checkField(key, value string) error {
 			return nil
 		}
 		return meltbook.Errorf(meltbook.Invalid, key, "%q is neither a surface speed (30m/s) nor a rotation rate (3000rpm)", value)
-	case f.param != "":
-		spec, _ := meltbook.ParamSpecFor(f.step, f.param)
+	case f.stepParam != "":
+		spec, _ := meltbook.ParamSpecFor(f.step, f.stepParam)
 		_, err := parseParam(spec, v)
 		return err
 	}

@@ -30,8 +30,8 @@ type runField struct {
 	repeat bool
 	// step and param name the process parameter the field records, when
 	// it records one.
-	step  meltbook.StepKind
-	param string
+	step      meltbook.StepKind
+	stepParam string
 }
 
 // Prefixes turning step parameter names into field names: arc-melting
@@ -64,7 +64,7 @@ func buildRunFields() []runField {
 			if spec.Name == "cooling-rate" || spec.Name == "cooling-regime" {
 				continue // computed, not typed
 			}
-			fs = append(fs, runField{key: stepFieldPrefix[kind] + spec.Name, help: spec.Help, example: paramExample(spec), step: kind, param: spec.Name})
+			fs = append(fs, runField{key: stepFieldPrefix[kind] + spec.Name, help: spec.Help, example: paramExample(spec), step: kind, stepParam: spec.Name})
 		}
 		if kind == meltbook.ArcMelt {
 			fs = append(fs, runField{key: "arc-notes", help: "remarks on the arc melting", example: "Ti getter melted first", step: kind})
@@ -114,6 +114,39 @@ func runFieldByKey(key string) (runField, bool) {
 // coolingInputKeys feed the cooling estimate without being stored as step
 // parameters; the estimate's regime text records them.
 var coolingInputKeys = []string{"heat-transfer", "wheel-temperature", "density", "specific-heat", "conductivity"}
+
+var coolingInputDimension = map[string]quantity.Dimension{
+	"heat-transfer": quantity.HeatTransferCoefficient, "wheel-temperature": quantity.Temperature,
+	"density": quantity.Density, "specific-heat": quantity.SpecificHeat, "conductivity": quantity.ThermalConductivity,
+}
+
+// coolingInputSymbol names each input in the regime text.
+var coolingInputSymbol = map[string]string{
+	"heat-transfer": "h", "wheel-temperature": "wheel", "density": "ρ", "specific-heat": "c_p", "conductivity": "k",
+}
+
+// givenMark follows an input of the estimate that the user gave.
+const givenMark = " (given)"
+
+// givenCoolingInputs reads back the inputs a cooling-regime text says were
+// given, so that a re-estimate keeps them.
+func givenCoolingInputs(regime string) []runValue {
+	var out []runValue
+	for _, part := range strings.Split(regime, "; ") {
+		for _, item := range strings.Split(part, ", ") {
+			if !strings.HasSuffix(item, givenMark) {
+				continue
+			}
+			symbol, value, _ := strings.Cut(strings.TrimSuffix(item, givenMark), " ")
+			for _, key := range coolingInputKeys {
+				if coolingInputSymbol[key] == symbol {
+					out = append(out, runValue{key, value, key})
+				}
+			}
+		}
+	}
+	return out
+}
 
 // runValue is one field value as typed, with where it was typed for error
 // messages: "--thickness", "runs.txt line 12, field thickness".
@@ -601,33 +634,30 @@ func estimateCooling(c composition.Composition, st *meltbook.ProcessStep, extra 
 	if err != nil {
 		return nil, nil, meltbook.Errorf(meltbook.Invalid, where, "cooling estimate: %v", err)
 	}
-	meltNote, wheelNote, hNote, matNote := " (assumed)", " (assumed)", " (default)", " from the elements"
 	meltK, _ := quantity.Parse(defaultMeltTemperature, quantity.Temperature)
-	wheelK, _ := quantity.Parse(defaultWheelTemperature, quantity.Temperature)
+	meltText := "melt " + meltK.String() + " (assumed)"
 	if p, ok := st.Param("melt-temperature"); ok {
 		meltK = quantity.Value{SI: p.SI, Dimension: quantity.Temperature, Unit: p.Unit}
-		meltNote = ""
+		meltText = "melt " + meltK.String()
 	}
-	dims := map[string]quantity.Dimension{
-		"heat-transfer": quantity.HeatTransferCoefficient, "wheel-temperature": quantity.Temperature,
-		"density": quantity.Density, "specific-heat": quantity.SpecificHeat, "conductivity": quantity.ThermalConductivity,
-	}
+	wheelK, _ := quantity.Parse(defaultWheelTemperature, quantity.Temperature)
+	given := map[string]quantity.Value{}
 	for _, v := range extra {
-		q, err := parsePositive(v, dims[v.key])
+		q, err := parsePositive(v, coolingInputDimension[v.key])
 		if err != nil {
 			return nil, nil, err
 		}
-		switch v.key {
-		case "heat-transfer":
-			in.HeatTransferWPerM2K, hNote = q.SI, ""
-		case "wheel-temperature":
-			wheelK, wheelNote = q, ""
-		case "density":
-			mat.DensityKgPerM3, matNote = q.SI, " partly given"
-		case "specific-heat":
-			mat.SpecificHeatJPerKgK, matNote = q.SI, " partly given"
-		case "conductivity":
-			mat.ThermalConductivityWPerMK, matNote = q.SI, " partly given"
+		given[v.key] = q
+	}
+	if q, ok := given["heat-transfer"]; ok {
+		in.HeatTransferWPerM2K = q.SI
+	}
+	if q, ok := given["wheel-temperature"]; ok {
+		wheelK = q
+	}
+	for key, dst := range map[string]*float64{"density": &mat.DensityKgPerM3, "specific-heat": &mat.SpecificHeatJPerKgK, "conductivity": &mat.ThermalConductivityWPerMK} {
+		if q, ok := given[key]; ok {
+			*dst = q.SI
 		}
 	}
 	in.MeltTemperatureK, in.WheelTemperatureK, in.Material = meltK.SI, wheelK.SI, mat
@@ -638,9 +668,22 @@ func estimateCooling(c composition.Composition, st *meltbook.ProcessStep, extra 
 	if err != nil {
 		return nil, nil, meltbook.Errorf(meltbook.Invalid, where, "cooling estimate: %v", err)
 	}
-	regime := fmt.Sprintf("%s, Biot number %.3g; h %.3g W/(m²·K)%s; melt %s%s, wheel %s%s; ρ %.4g kg/m³, c_p %.4g J/(kg·K), k %.4g W/(m·K)%s",
-		est.Regime, est.Biot, est.HeatTransferWPerM2K, hNote, meltK, meltNote, wheelK, wheelNote,
-		mat.DensityKgPerM3, mat.SpecificHeatJPerKgK, mat.ThermalConductivityWPerMK, matNote)
+	// Each input is written with where it came from; given ones read back
+	// (givenCoolingInputs) when an amendment re-estimates the rate.
+	input := func(key, fallback string) string {
+		if q, ok := given[key]; ok {
+			return coolingInputSymbol[key] + " " + q.String() + givenMark
+		}
+		return coolingInputSymbol[key] + " " + fallback
+	}
+	regime := strings.Join([]string{
+		fmt.Sprintf("%s, Biot number %.3g", est.Regime, est.Biot),
+		input("heat-transfer", fmt.Sprintf("%.3g W/(m²·K) (default)", est.HeatTransferWPerM2K)),
+		meltText + ", " + input("wheel-temperature", wheelK.String()+" (assumed)"),
+		input("density", fmt.Sprintf("%.4g kg/m³ (from the elements)", mat.DensityKgPerM3)) + ", " +
+			input("specific-heat", fmt.Sprintf("%.4g J/(kg·K) (from the elements)", mat.SpecificHeatJPerKgK)) + ", " +
+			input("conductivity", fmt.Sprintf("%.4g W/(m·K) (from the elements)", mat.ThermalConductivityWPerMK)),
+	}, "; ")
 	return &est, []meltbook.Param{
 		{Name: "cooling-rate", SI: est.RateKPerS, Unit: "K/s"},
 		{Name: "cooling-regime", Text: regime},
@@ -675,9 +718,9 @@ func (b *builtRun) retarget(err error) error {
 		return err
 	}
 	key := e.Field
-	if kind, param, ok := strings.Cut(e.Field, "."); ok {
+	if kind, stepParam, ok := strings.Cut(e.Field, "."); ok {
 		if prefix, isStep := stepFieldPrefix[meltbook.StepKind(kind)]; isStep {
-			key = prefix + param
+			key = prefix + stepParam
 		} else if kind == "weigh-out" {
 			key = "weighed"
 		}

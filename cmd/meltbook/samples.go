@@ -272,7 +272,7 @@ func parseFraction(where, s string) (*float64, error) {
 }
 
 func newOutcomeCommand(a *app) *cobra.Command {
-	var kind, lattice, order, name, fraction, evidence string
+	var kind, lattice, order, name, fraction, evidenceText string
 	kinds := make([]string, len(meltbook.PhaseKinds))
 	for i, k := range meltbook.PhaseKinds {
 		kinds[i] = string(k)
@@ -289,7 +289,7 @@ A person's decision always ranks above automatic proposals on the sample.`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			o := meltbook.Outcome{
 				Kind: meltbook.PhaseKind(strings.ToLower(strings.TrimSpace(kind))), Lattice: strings.ToUpper(strings.TrimSpace(lattice)),
-				Order: strings.TrimSpace(order), Name: strings.TrimSpace(name), Evidence: evidence,
+				Order: strings.TrimSpace(order), Name: strings.TrimSpace(name), Evidence: evidenceText,
 				Source: meltbook.ByPerson, RecordedBy: a.operator(),
 			}
 			var err error
@@ -318,7 +318,7 @@ A person's decision always ranks above automatic proposals on the sample.`,
 	f.StringVar(&order, "order", "", "approximant order, e.g. 1/1")
 	f.StringVar(&name, "name", "", "name of a crystalline phase, e.g. λ-Al13Fe4")
 	f.StringVar(&fraction, "fraction", "", "rough volume fraction, 0.9 or 90%")
-	f.StringVar(&evidence, "evidence", "", "what the decision rests on, e.g. \"XRD: all peaks index as F\"")
+	f.StringVar(&evidenceText, "evidence", "", "what the decision rests on, e.g. \"XRD: all peaks index as F\"")
 	return cmd
 }
 

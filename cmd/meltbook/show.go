@@ -63,7 +63,7 @@ any sample derived from it. The handles in brackets ([step:QX-0042:2],
 }
 
 // when writes a time in the local zone to the minute.
-func when(t time.Time) string { return t.Local().Format("2006-01-02 15:04") }
+func shownAt(t time.Time) string { return t.Local().Format("2006-01-02 15:04") }
 
 func compositionOf(fs []meltbook.ElementFraction) composition.Composition {
 	c := make(composition.Composition, len(fs))
@@ -78,15 +78,15 @@ func printMelt(w io.Writer, rec *meltbook.MeltRecord, scheme element.Scheme) err
 	nominal := compositionOf(m.Nominal)
 	fmt.Fprintf(w, "%s  %s\n\n", m.Code, nominal.Format(2))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "made\t%s by %s\n", when(m.CreatedAt), m.Operator)
+	fmt.Fprintf(tw, "made\t%s by %s\n", shownAt(m.CreatedAt), m.Operator)
 	fmt.Fprintf(tw, "entered as\t%s\n", m.CompositionEntered)
 	fmt.Fprintf(tw, "normalised\t%s (at.%%)\n", nominal.Format(2))
-	fmt.Fprintf(tw, "button\t%s planned\n", grams(m.TargetMassGrams))
+	fmt.Fprintf(tw, "button\t%s planned\n", gramsText(m.TargetMassGrams))
 	if m.MassAfterMeltGrams != nil {
-		line := grams(*m.MassAfterMeltGrams) + " after melting"
+		line := gramsText(*m.MassAfterMeltGrams) + " after melting"
 		if loss, ok := m.MassLossGrams(); ok {
 			before := *m.MassAfterMeltGrams + loss
-			line += fmt.Sprintf(", loss %s (%.2f %% of %s)", grams(loss), 100*loss/before, grams(before))
+			line += fmt.Sprintf(", loss %s (%.2f %% of %s)", gramsText(loss), 100*loss/before, gramsText(before))
 		}
 		fmt.Fprintf(tw, "\t%s\n", line)
 	}
@@ -110,7 +110,7 @@ func printMelt(w io.Writer, rec *meltbook.MeltRecord, scheme element.Scheme) err
 			if n.SampleCode != "" && n.SampleCode != m.Code {
 				on = " on " + n.SampleCode
 			}
-			fmt.Fprintf(w, "  %s %s%s: %s  [note:%d]\n", when(n.At), n.Author, on, n.Text, n.ID)
+			fmt.Fprintf(w, "  %s %s%s: %s  [note:%d]\n", shownAt(n.At), n.Author, on, n.Text, n.ID)
 		}
 	}
 	fmt.Fprintln(w, "\nHistory")
@@ -206,21 +206,23 @@ func printCompositions(w io.Writer, rec *meltbook.MeltRecord, nominal compositio
 	elements := nominal.Elements()
 	for _, x := range ms {
 		for _, f := range x.m.Fractions {
-			if nominal.Fraction(f.Element) == 0 && !contains(elements, f.Element) {
+			if nominal.Fraction(f.Element) == 0 && !hasString(elements, f.Element) {
 				elements = append(elements, f.Element)
 			}
 		}
 	}
 	fmt.Fprintln(w, "\nComposition, nominal and measured (at.%)")
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintf(tw, "  \t%s\t\n", strings.Join(elements, "\t"))
+	// Fixed columns: the lines naming each measurement sit between the
+	// rows and must not break the alignment.
 	row := func(label string, value func(el string) string) {
-		cells := make([]string, len(elements))
-		for i, el := range elements {
-			cells[i] = value(el)
+		var b strings.Builder
+		fmt.Fprintf(&b, "  %-11s", label)
+		for _, el := range elements {
+			fmt.Fprintf(&b, "%8s", value(el))
 		}
-		fmt.Fprintf(tw, "  %s\t%s\t\n", label, strings.Join(cells, "\t"))
+		fmt.Fprintln(w, b.String())
 	}
+	row("", func(el string) string { return el })
 	row("nominal", func(el string) string { return fmt.Sprintf("%.2f", 100*nominal.Fraction(el)) })
 	for _, x := range ms {
 		fr := map[string]float64{}
@@ -231,7 +233,7 @@ func printCompositions(w io.Writer, rec *meltbook.MeltRecord, nominal compositio
 		for _, u := range x.m.Uncertainty {
 			unc[u.Element] = u.Fraction
 		}
-		fmt.Fprintf(tw, "  %s %s, %s by %s  [measurement:%d]\n", x.sample, x.m.Method, when(x.m.At), x.m.Operator, x.m.ID)
+		fmt.Fprintf(w, "  %s %s, %s by %s  [measurement:%d]\n", x.sample, x.m.Method, shownAt(x.m.At), x.m.Operator, x.m.ID)
 		row("measured", func(el string) string { return fmt.Sprintf("%.2f", 100*fr[el]) })
 		if len(unc) > 0 {
 			row("± (1σ)", func(el string) string {
@@ -245,10 +247,9 @@ func printCompositions(w io.Writer, rec *meltbook.MeltRecord, nominal compositio
 			return fmt.Sprintf("%+.2f", roundTo(100*(fr[el]-nominal.Fraction(el)), 2))
 		})
 		if x.m.Notes != "" {
-			fmt.Fprintf(tw, "  notes: %s\n", x.m.Notes)
+			fmt.Fprintf(w, "  notes: %s\n", x.m.Notes)
 		}
 	}
-	tw.Flush()
 }
 
 func printSample(w io.Writer, s *meltbook.SampleRecord) {
@@ -261,9 +262,9 @@ func printSample(w io.Writer, s *meltbook.SampleRecord) {
 	if s.Label != "" {
 		label = " \"" + s.Label + "\""
 	}
-	fmt.Fprintf(w, "%s  %s%s  %s, %s\n", indent, s.Code, label, what, when(s.CreatedAt))
+	fmt.Fprintf(w, "%s  %s%s  %s, %s\n", indent, s.Code, label, what, shownAt(s.CreatedAt))
 	for _, st := range s.Steps {
-		fmt.Fprintf(w, "%s    %d. %s  %s by %s  [step:%s:%d]\n", indent, st.Seq, st.Kind, when(st.At), st.Operator, s.Code, st.Seq)
+		fmt.Fprintf(w, "%s    %d. %s  %s by %s  [step:%s:%d]\n", indent, st.Seq, st.Kind, shownAt(st.At), st.Operator, s.Code, st.Seq)
 		for _, p := range orderedParams(st) {
 			fmt.Fprintf(w, "%s         %-18s %s\n", indent, p.Name, formatParam(st.Kind, p))
 		}
@@ -276,7 +277,7 @@ func printSample(w io.Writer, s *meltbook.SampleRecord) {
 		if o.Notes != "" {
 			notes = "; " + o.Notes
 		}
-		fmt.Fprintf(w, "%s    electron diffraction: %s axes, %s by %s%s  [symmetry:%d]\n", indent, foldsText(o.Folds), when(o.At), o.Operator, notes, o.ID)
+		fmt.Fprintf(w, "%s    electron diffraction: %s axes, %s by %s%s  [symmetry:%d]\n", indent, foldsText(o.Folds), shownAt(o.At), o.Operator, notes, o.ID)
 	}
 	var person, automatic []meltbook.Outcome
 	for _, o := range s.Outcomes {
@@ -289,7 +290,7 @@ func printSample(w io.Writer, s *meltbook.SampleRecord) {
 	if len(person) > 0 {
 		fmt.Fprintf(w, "%s    outcome, decided by a person:\n", indent)
 		for _, o := range person {
-			fmt.Fprintf(w, "%s      %s  by %s, %s%s  [outcome:%d]\n", indent, outcomeText(o), o.RecordedBy, when(o.At), evidence(o), o.ID)
+			fmt.Fprintf(w, "%s      %s  by %s, %s%s  [outcome:%d]\n", indent, outcomeText(o), o.RecordedBy, shownAt(o.At), evidenceText(o), o.ID)
 		}
 	}
 	if len(automatic) > 0 {
@@ -299,12 +300,12 @@ func printSample(w io.Writer, s *meltbook.SampleRecord) {
 		}
 		fmt.Fprintf(w, "%s    automatic proposals%s:\n", indent, note)
 		for _, o := range automatic {
-			fmt.Fprintf(w, "%s      %s  %s, from %s, %s%s  [outcome:%d]\n", indent, outcomeText(o), o.Status, o.RecordedBy, when(o.At), evidence(o), o.ID)
+			fmt.Fprintf(w, "%s      %s  %s, from %s, %s%s  [outcome:%d]\n", indent, outcomeText(o), o.Status, o.RecordedBy, shownAt(o.At), evidenceText(o), o.ID)
 		}
 	}
 }
 
-func evidence(o meltbook.Outcome) string {
+func evidenceText(o meltbook.Outcome) string {
 	if o.Evidence == "" {
 		return ""
 	}
@@ -331,9 +332,9 @@ func printHistory(w io.Writer, hs []meltbook.HistoryEntry) {
 		}
 		switch h.Action {
 		case "amend":
-			fmt.Fprintf(w, "  %s %s amended %s %s: %s → %s; why: %s\n", when(h.At), h.Who, what, h.Field, orNone(h.Before), orNone(h.After), h.Why)
+			fmt.Fprintf(w, "  %s %s amended %s %s: %s → %s; why: %s\n", shownAt(h.At), h.Who, what, h.Field, orNone(h.Before), orNone(h.After), h.Why)
 		default:
-			line := fmt.Sprintf("  %s %s %s %s", when(h.At), h.Who, h.Action, what)
+			line := fmt.Sprintf("  %s %s %s %s", shownAt(h.At), h.Who, h.Action, what)
 			if h.Field != "" {
 				line += " " + h.Field
 			}
