@@ -64,7 +64,21 @@ type fakeNotebook struct {
 }
 
 func newFake(samples ...fakeSample) *fakeNotebook {
-	return &fakeNotebook{samples: samples, notes: map[string][]meltbook.Note{}}
+	f := &fakeNotebook{samples: samples, notes: map[string][]meltbook.Note{}}
+	f.numberOutcomes()
+	return f
+}
+
+// numberOutcomes gives every outcome an ID, as the store does.
+func (f *fakeNotebook) numberOutcomes() {
+	id := int64(0)
+	for i := range f.samples {
+		f.samples[i].outcomes = slices.Clone(f.samples[i].outcomes)
+		for j := range f.samples[i].outcomes {
+			id++
+			f.samples[i].outcomes[j].ID = id
+		}
+	}
 }
 
 func fractions(pairs ...any) []meltbook.ElementFraction {
@@ -137,7 +151,10 @@ func inventedNotebook(n int) *fakeNotebook {
 		rate := math.Pow(10, 4.5+2.5*r.Float64())
 		var outcomes []meltbook.Outcome
 		switch x := r.Float64(); {
+		case x < 0.04:
 		case x < 0.08:
+			outcomes = []meltbook.Outcome{{Kind: meltbook.Icosahedral, Lattice: "F", Source: meltbook.ByAutomatic, Status: meltbook.Proposed,
+				RecordedBy: "meltbook indexing", Evidence: "12 of 13 peaks index as icosahedral F", At: epoch}}
 		case math.Abs(ea-1.86) < 0.06 && rate > 2e5:
 			outcomes = decided(meltbook.Icosahedral, meltbook.Crystalline)
 		case math.Abs(ea-1.86) < 0.1:
@@ -155,6 +172,7 @@ func inventedNotebook(n int) *fakeNotebook {
 		}
 		f.samples = append(f.samples, s)
 	}
+	f.numberOutcomes()
 	return f
 }
 
@@ -437,4 +455,54 @@ func (f *fakeNotebook) AddNote(ctx context.Context, who, code, text string) (*me
 	}
 	f.notes[melt] = append(f.notes[melt], n)
 	return &n, nil
+}
+
+func (f *fakeNotebook) AddOutcome(ctx context.Context, who, sampleCode string, o meltbook.Outcome) (*meltbook.Outcome, error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	o.Source, o.Status, o.At = meltbook.ByPerson, meltbook.Confirmed, epoch
+	if err := o.Validate(); err != nil {
+		return nil, err
+	}
+	next := int64(1)
+	for _, s := range f.samples {
+		for _, x := range s.outcomes {
+			next = max(next, x.ID+1)
+		}
+	}
+	for i := range f.samples {
+		if f.samples[i].code == sampleCode {
+			o.ID = next
+			f.samples[i].outcomes = append(f.samples[i].outcomes, o)
+			return &o, nil
+		}
+	}
+	return nil, meltbook.Errorf(meltbook.NotFound, "sample", "no sample %s", sampleCode)
+}
+
+func (f *fakeNotebook) decide(id int64, status meltbook.ProposalStatus) error {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	for i := range f.samples {
+		for j := range f.samples[i].outcomes {
+			o := &f.samples[i].outcomes[j]
+			if o.ID != id {
+				continue
+			}
+			if o.Source != meltbook.ByAutomatic || o.Status != meltbook.Proposed {
+				return meltbook.Errorf(meltbook.Conflict, "outcome", "outcome %d is not a proposal awaiting a decision", id)
+			}
+			o.Status = status
+			return nil
+		}
+	}
+	return meltbook.Errorf(meltbook.NotFound, "outcome", "no outcome %d", id)
+}
+
+func (f *fakeNotebook) ConfirmProposal(ctx context.Context, who string, id int64, why string) error {
+	return f.decide(id, meltbook.Confirmed)
+}
+
+func (f *fakeNotebook) RejectProposal(ctx context.Context, who string, id int64, why string) error {
+	return f.decide(id, meltbook.Rejected)
 }

@@ -8,7 +8,7 @@ import (
 	"meltbook/web/plot"
 )
 
-// Notebook is what the pages need from the notebook store. The first three
+// Notebook is what the pages need from the notebook store. The first six
 // methods have the signatures of the store's own; the rest are what the
 // maps, the overview and the scan view need beyond them.
 //
@@ -24,6 +24,12 @@ type Notebook interface {
 	// AddNote records a note by who on a melt (code is the melt's) or on
 	// one of its derived samples (code is the sample's).
 	AddNote(ctx context.Context, who, code, text string) (*meltbook.Note, error)
+	// AddOutcome records a person's decision about a phase in a sample.
+	AddOutcome(ctx context.Context, who, sampleCode string, o meltbook.Outcome) (*meltbook.Outcome, error)
+	// ConfirmProposal and RejectProposal decide an automatic proposal;
+	// why is optional.
+	ConfirmProposal(ctx context.Context, who string, outcomeID int64, why string) error
+	RejectProposal(ctx context.Context, who string, outcomeID int64, why string) error
 
 	// Summary counts what the notebook holds and lists recent changes.
 	Summary(ctx context.Context) (Summary, error)

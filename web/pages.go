@@ -6,6 +6,7 @@ import (
 	"math"
 	"net/http"
 	"net/url"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -283,6 +284,20 @@ type runPage struct {
 	// Focus is the sample code the page was opened for, if any.
 	Focus string
 	Note  noteForm
+	// Outcome is the outcome form of the sample it names, as typed; the
+	// other samples' forms start empty.
+	Outcome outcomeForm
+	// Author fills "recorded by" in fresh forms.
+	Author string
+	// PhaseKinds and Lattices fill the outcome form's choices.
+	PhaseKinds []meltbook.PhaseKind
+	Lattices   []string
+}
+
+type outcomeForm struct {
+	Sample, Kind, Lattice, Order, Name, Fraction, Evidence, By string
+	Errors                                                     map[string]string
+	Error                                                      string
 }
 
 type noteForm struct {
@@ -311,6 +326,9 @@ func (s *Server) loadRun(r *http.Request, code string) (p runPage, err error) {
 		return p, err
 	}
 	p.Run = rec
+	p.Author = s.cfg.Author
+	p.PhaseKinds = meltbook.PhaseKinds
+	p.Lattices = []string{"P", "I", "F"}
 	scans, err := s.nb.Scans(r.Context(), rec.Melt.Code)
 	if err != nil {
 		return p, err
@@ -397,6 +415,114 @@ func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
 	status, _ := statusOf(meltbook.Errorf(meltbook.Invalid, "", "note"), r)
 	p.Note = form
 	s.render(w, r, status, "run", melt, p)
+}
+
+// addOutcome records a person's outcome on one of the run's samples.
+func (s *Server) addOutcome(w http.ResponseWriter, r *http.Request) {
+	if err := r.ParseForm(); err != nil {
+		s.fail(w, r, bodyError(err))
+		return
+	}
+	p, err := s.loadRun(r, chi.URLParam(r, "code"))
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	melt := p.Run.Melt.Code
+	pf := r.PostForm
+	form := outcomeForm{
+		Sample: pf.Get("sample"), Kind: pf.Get("kind"), Lattice: pf.Get("lattice"), Order: strings.TrimSpace(pf.Get("order")),
+		Name: strings.TrimSpace(pf.Get("name")), Fraction: strings.TrimSpace(pf.Get("fraction")),
+		Evidence: strings.TrimSpace(pf.Get("evidence")), By: strings.TrimSpace(pf.Get("by")), Errors: map[string]string{},
+	}
+	if !slices.ContainsFunc(p.Run.Samples, func(sr meltbook.SampleRecord) bool { return sr.Code == form.Sample }) {
+		s.fail(w, r, meltbook.Errorf(meltbook.Invalid, "sample", "%q is not a sample of %s", form.Sample, melt))
+		return
+	}
+	o := meltbook.Outcome{Kind: meltbook.PhaseKind(form.Kind), Lattice: form.Lattice, Order: form.Order, Name: form.Name,
+		Evidence: form.Evidence, RecordedBy: form.By, Source: meltbook.ByPerson, Status: meltbook.Confirmed}
+	if form.Fraction != "" {
+		v, err := strconv.ParseFloat(strings.TrimSuffix(form.Fraction, "%"), 64)
+		if err != nil || !(v >= 0 && v <= 100) {
+			form.Errors["fraction"] = "Give the fraction in percent, 0 to 100, or leave it empty."
+		} else {
+			f := v / 100
+			o.Fraction = &f
+		}
+	}
+	if len(form.Errors) == 0 {
+		err = o.Validate()
+		if err == nil {
+			_, err = s.nb.AddOutcome(r.Context(), form.By, form.Sample, o)
+			if err == nil {
+				http.Redirect(w, r, "/runs/"+url.PathEscape(melt)+"#s-"+url.PathEscape(form.Sample), http.StatusSeeOther)
+				return
+			}
+		}
+		var e *meltbook.Error
+		if kind := kindOf(err); kind != meltbook.Invalid && kind != meltbook.Conflict || !errors.As(err, &e) {
+			s.fail(w, r, err)
+			return
+		}
+		switch e.Field {
+		case "kind", "lattice", "order", "name", "fraction", "by", "evidence":
+			form.Errors[e.Field] = e.Message
+		default:
+			form.Error = e.Error()
+		}
+	}
+	status, _ := statusOf(meltbook.Errorf(meltbook.Invalid, "", "outcome"), r)
+	if len(form.Errors) == 0 {
+		status, _ = statusOf(err, r)
+	}
+	p.Outcome, p.Focus = form, form.Sample
+	p.Note = noteForm{Author: s.cfg.Author}
+	s.render(w, r, status, "run", melt, p)
+}
+
+// decideProposal confirms or rejects an automatic proposal on one of the
+// run's samples.
+func (s *Server) decideProposal(w http.ResponseWriter, r *http.Request) {
+	if err := r.ParseForm(); err != nil {
+		s.fail(w, r, bodyError(err))
+		return
+	}
+	p, err := s.loadRun(r, chi.URLParam(r, "code"))
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	id, err := strconv.ParseInt(chi.URLParam(r, "id"), 10, 64)
+	var sample string
+	for _, sr := range p.Run.Samples {
+		for _, o := range sr.Outcomes {
+			if o.ID == id && err == nil {
+				sample = sr.Code
+			}
+		}
+	}
+	if sample == "" {
+		s.fail(w, r, meltbook.Errorf(meltbook.NotFound, "outcome", "%s has no outcome %s", p.Run.Melt.Code, chi.URLParam(r, "id")))
+		return
+	}
+	who, why := strings.TrimSpace(r.PostForm.Get("by")), strings.TrimSpace(r.PostForm.Get("why"))
+	if who == "" {
+		s.fail(w, r, meltbook.Errorf(meltbook.Invalid, "by", "say who decides the proposal"))
+		return
+	}
+	switch r.PostForm.Get("decision") {
+	case "confirm":
+		err = s.nb.ConfirmProposal(r.Context(), who, id, why)
+	case "reject":
+		err = s.nb.RejectProposal(r.Context(), who, id, why)
+	default:
+		err = meltbook.Errorf(meltbook.Invalid, "decision", "choose confirm or reject")
+	}
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, "/runs/"+url.PathEscape(p.Run.Melt.Code)+"#s-"+url.PathEscape(sample), http.StatusSeeOther)
 }
 
 type scanPage struct {

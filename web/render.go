@@ -99,6 +99,7 @@ func loadPages() (*pages, error) {
 			}
 			return ""
 		},
+		"blankOutcome": func() outcomeForm { return outcomeForm{} },
 		"cornerField": func(name, label, value string, errs map[string]string) cornerInput {
 			return cornerInput{Name: name, Label: label, Value: value, Error: errs[name]}
 		},

@@ -139,6 +139,8 @@ func (s *Server) routes() chi.Router {
 	r.Group(func(r chi.Router) {
 		r.Use(s.requireFormKey)
 		r.Post("/runs/{code}/notes", s.addNote)
+		r.Post("/runs/{code}/outcomes", s.addOutcome)
+		r.Post("/runs/{code}/proposals/{id}", s.decideProposal)
 	})
 	r.Get("/scans/{id}", s.scan)
 	r.Get("/map", s.compositionMap)
