@@ -19,6 +19,8 @@ func init() {
 	addCommand(newSymmetryCommand)
 	addCommand(newOutcomeCommand)
 	addCommand(newNoteCommand)
+	addCommand(func(a *app) *cobra.Command { return newDecideCommand(a, true) })
+	addCommand(func(a *app) *cobra.Command { return newDecideCommand(a, false) })
 }
 
 // atFlag reads an optional --at time in the local zone.
@@ -377,4 +379,54 @@ func newNoteCommand(a *app) *cobra.Command {
 			return nil
 		},
 	}
+}
+
+// newDecideCommand builds confirm (accept an automatic proposal) or
+// reject.
+func newDecideCommand(a *app, confirm bool) *cobra.Command {
+	var reason string
+	verb, short := "reject", "Reject an automatic outcome proposal; it stays in the notebook but never counts"
+	if confirm {
+		verb, short = "confirm", "Confirm an automatic outcome proposal, making it a standing outcome"
+	}
+	cmd := &cobra.Command{
+		Use:   verb + " outcome:ID",
+		Short: short,
+		Long: short + `.
+Proposals come from the automatic analysis (e.g. indexing of a diffraction
+scan); 'meltbook show' lists them with their handles. A person's own outcome,
+recorded with 'meltbook outcome', always ranks above any proposal.`,
+		Args: exactArgs(1, "outcome:ID"),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			ref, ok := strings.CutPrefix(args[0], "outcome:")
+			id, err := strconv.ParseInt(ref, 10, 64)
+			if !ok || err != nil || id <= 0 {
+				return invalidFlag("outcome:ID", fmt.Sprintf("%q is not an outcome handle such as outcome:12", args[0]))
+			}
+			if !confirm && strings.TrimSpace(reason) == "" {
+				return invalidFlag("--reason", "say why the proposal is rejected")
+			}
+			st, err := a.openNotebook(cmd.Context())
+			if err != nil {
+				return err
+			}
+			defer st.Close()
+			if confirm {
+				err = st.ConfirmProposal(cmd.Context(), a.operator(), id, reason)
+			} else {
+				err = st.RejectProposal(cmd.Context(), a.operator(), id, reason)
+			}
+			if err != nil {
+				return err
+			}
+			fmt.Fprintf(a.stdout, "%sed %s\n", strings.TrimSuffix(verb, "e"), args[0])
+			return nil
+		},
+	}
+	help := "why (optional)"
+	if !confirm {
+		help = "why the proposal is wrong (required)"
+	}
+	cmd.Flags().StringVar(&reason, "reason", "", help)
+	return cmd
 }

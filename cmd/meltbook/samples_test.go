@@ -191,3 +191,32 @@ func TestAmendKeepsHistory(t *testing.T) {
 		}
 	}
 }
+
+func TestConfirmAndRejectProposals(t *testing.T) {
+	nb := findNotebook(t) // QX-0004 carries one automatic icosahedral proposal, outcome:4
+	if got := foundCodes(t, nb, "--outcome", "icosahedral"); got != "1 3" {
+		t.Fatalf("before: %q", got)
+	}
+	if _, errOut, code := nb.run("", "reject", "outcome:4"); code != exitInvalid || !strings.Contains(errOut, "--reason") {
+		t.Errorf("reject without a reason: exit %d, %q", code, errOut)
+	}
+	if out := nb.ok("confirm", "outcome:4", "--reason", "pattern checked by hand"); out != "confirmed outcome:4\n" {
+		t.Errorf("confirm printed %q", out)
+	}
+	// A confirmed proposal is a standing outcome.
+	if got := foundCodes(t, nb, "--outcome", "icosahedral"); got != "1 3 4" {
+		t.Errorf("after confirming: %q", got)
+	}
+	if _, _, code := nb.run("", "confirm", "outcome:4"); code == 0 {
+		t.Error("a proposal was confirmed twice")
+	}
+	if _, _, code := nb.run("", "confirm", "outcome:1"); code == 0 {
+		t.Error("a person's outcome was confirmed as if it were a proposal")
+	}
+	if _, _, code := nb.run("", "reject", "outcome:999", "--reason", "x"); code != exitNotFound {
+		t.Errorf("rejecting a missing proposal: exit %d, want %d", code, exitNotFound)
+	}
+	if _, _, code := nb.run("", "confirm", "4"); code != exitInvalid {
+		t.Errorf("a bare number: exit %d, want %d", code, exitInvalid)
+	}
+}
