@@ -472,3 +472,10 @@ func FuzzSheet(f *testing.F) {
 		}
 	})
 }
+
+func TestFillProblemSaysFill(t *testing.T) {
+	r := oneRow(t, "code,composition,mass (g)", "A-1,Al63Cu25Fe12,10", runsheet.Options{Operator: "x", Fill: map[string]string{"wheel-speed": "30 ft/s"}})
+	if want := `runs.csv line 2, --fill wheel-speed: "30 ft/s": unknown unit "ft/s"`; !strings.Contains(problems(r), want) {
+		t.Errorf("problems %q, want %q", problems(r), want)
+	}
+}

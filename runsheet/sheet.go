@@ -57,16 +57,21 @@ type Column struct {
 
 // Problem is one reason a row was refused.
 type Problem struct {
-	Sheet   string
-	Line    int
-	Column  string // the heading as written, or "" for the row as a whole
+	Sheet string
+	Line  int
+	// Column is the heading as written, "--fill KEY" for a filled value,
+	// or "" for the row as a whole.
+	Column  string
 	Message string
 }
 
 // Error returns e.g. `runs.csv line 14, column "Wheel speed": unknown unit "ft/s"`.
 func (p Problem) Error() string {
-	if p.Column == "" {
+	switch {
+	case p.Column == "":
 		return fmt.Sprintf("%s line %d: %s", p.Sheet, p.Line, p.Message)
+	case strings.HasPrefix(p.Column, "--"):
+		return fmt.Sprintf("%s line %d, %s: %s", p.Sheet, p.Line, p.Column, p.Message)
 	}
 	return fmt.Sprintf("%s line %d, column %q: %s", p.Sheet, p.Line, p.Column, p.Message)
 }

@@ -223,7 +223,7 @@ func sheetCheckNotebook(ctx context.Context, st *store.Store, sh *runsheet.Sheet
 		s, err := st.FindSampleByCode(ctx, r.Melt.Code)
 		switch {
 		case err == nil && s.ParentCode == "":
-			r.Refuse(heading, "melt %s is already in the notebook (made %s); amend it there instead", r.Melt.Code, s.CreatedAt.Local().Format("2006-01-02"))
+			r.Refuse(heading, "melt %s is already in the notebook; correct it there with amend instead", r.Melt.Code)
 		case err == nil:
 			r.Refuse(heading, "%s is already a sample in the notebook (a piece of %s)", r.Melt.Code, s.ParentCode)
 		case meltbook.KindOf(err) != meltbook.NotFound:
