@@ -26,7 +26,12 @@ func newExportCommand(a *app) *cobra.Command {
 and the whole history as one JSON document, to FILE (which must not exist
 yet) or to standard output. 'meltbook restore' reads it back into an empty
 notebook with nothing lost.`,
-		Args: cobra.MaximumNArgs(1),
+		Args: func(cmd *cobra.Command, args []string) error {
+			if len(args) > 1 {
+				return &usageError{fmt.Errorf("export takes at most one FILE, got %d arguments", len(args))}
+			}
+			return nil
+		},
 		RunE: func(cmd *cobra.Command, args []string) error {
 			st, err := a.openNotebook(cmd.Context())
 			if err != nil {

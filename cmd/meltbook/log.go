@@ -37,7 +37,7 @@ typed. With a ribbon thickness the cooling rate is estimated and stored with
 its regime.
 
 Without --code the next free code with --prefix is used. With --file the runs
-come from a run file (see README, "Run files"), all logged or none. On a
+come from a run file (format in the README, Notebook section), all logged or none. On a
 terminal, missing required values are asked for. Nothing is written when any
 value is wrong. The bench cautions for the elements and the process follow.`,
 		Args: exactArgs(0, "no arguments"),
