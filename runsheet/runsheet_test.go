@@ -2,6 +2,7 @@ package runsheet_test
 
 import (
 	"bytes"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -477,5 +478,24 @@ func TestFillProblemSaysFill(t *testing.T) {
 	r := oneRow(t, "code,composition,mass (g)", "A-1,Al63Cu25Fe12,10", runsheet.Options{Operator: "x", Fill: map[string]string{"wheel-speed": "30 ft/s"}})
 	if want := `runs.csv line 2, --fill wheel-speed: "30 ft/s": unknown unit "ft/s"`; !strings.Contains(problems(r), want) {
 		t.Errorf("problems %q, want %q", problems(r), want)
+	}
+}
+
+// BenchmarkRead reads a semicolon sheet of 1000 runs with decimal commas,
+// dates, anneals, outcomes and cooling estimates.
+func BenchmarkRead(b *testing.B) {
+	var sb strings.Builder
+	sb.WriteString("Code;Nominal;Mass (g);Operator;Date;Wheel speed (m/s);Thickness (um);Melt temp (C);Anneal;Outcome\r\n")
+	for i := 0; i < 1000; i++ {
+		fmt.Fprintf(&sb, "RB-%04d;Al6%d,5Cu25Fe1%d,5;10;Ines Varga;%02d.%02d.2026;3%d;3%d,5;1250;800 °C 4 h WQ;i-phase 70%% + λ 30%%\r\n",
+			i, i%4, 2-i%3, 1+i%28, 1+i%12, i%10, i%10)
+	}
+	data := []byte(sb.String())
+	b.SetBytes(int64(len(data)))
+	for b.Loop() {
+		sh, err := runsheet.Read(bytes.NewReader(data), runsheet.Options{Name: "runs.csv"})
+		if err != nil || sh.Taken() != 1000 {
+			b.Fatalf("%v, %d taken", err, sh.Taken())
+		}
 	}
 }
