@@ -8,14 +8,31 @@ import (
 	"meltbook/web/plot"
 )
 
-// Notebook is what the pages need from the notebook store. The first six
-// methods have the signatures of the store's own; the rest are what the
-// maps, the overview and the scan view need beyond them.
+// Notebook is what the pages need from the notebook store: the store's own
+// methods (StoreMethods) and what the maps, the overview and the scan view
+// need beyond them.
 //
 // Errors should be *meltbook.Error where the user is at fault (an unknown
 // code is NotFound, a bad value Invalid with its field) so that the page can
 // say what and where; anything else is shown as an internal error.
 type Notebook interface {
+	StoreMethods
+
+	// Summary counts what the notebook holds and lists recent changes.
+	Summary(ctx context.Context) (Summary, error)
+	// SampleMelt returns the code of the melt a sample belongs to.
+	SampleMelt(ctx context.Context, sampleCode string) (string, error)
+	// MapSamples returns every sample with a composition, for the maps.
+	MapSamples(ctx context.Context) ([]MapSample, error)
+	// Scans lists the diffraction scans of a melt's samples.
+	Scans(ctx context.Context, meltCode string) ([]ScanSummary, error)
+	// Scan returns one diffraction scan ready to draw.
+	Scan(ctx context.Context, id int64) (ScanView, error)
+}
+
+// StoreMethods are the methods the pages use that *store.Store has, with
+// its signatures (a test holds them to it).
+type StoreMethods interface {
 	// FindMelts returns one page of the melts matching f (f.Limit, f.Offset)
 	// and the number of all that match.
 	FindMelts(ctx context.Context, f meltbook.MeltFilter) ([]meltbook.MeltSummary, int, error)
@@ -30,17 +47,6 @@ type Notebook interface {
 	// why is optional.
 	ConfirmProposal(ctx context.Context, who string, outcomeID int64, why string) error
 	RejectProposal(ctx context.Context, who string, outcomeID int64, why string) error
-
-	// Summary counts what the notebook holds and lists recent changes.
-	Summary(ctx context.Context) (Summary, error)
-	// SampleMelt returns the code of the melt a sample belongs to.
-	SampleMelt(ctx context.Context, sampleCode string) (string, error)
-	// MapSamples returns every sample with a composition, for the maps.
-	MapSamples(ctx context.Context) ([]MapSample, error)
-	// Scans lists the diffraction scans of a melt's samples.
-	Scans(ctx context.Context, meltCode string) ([]ScanSummary, error)
-	// Scan returns one diffraction scan ready to draw.
-	Scan(ctx context.Context, id int64) (ScanView, error)
 }
 
 // Summary is the notebook at a glance.
