@@ -273,6 +273,8 @@ type compositionMapData struct {
 	markers   []plot.TernaryMarker
 	notes     []string
 	title     string
+	triangle  plot.Triangle
+	pooled    int // samples that set the shares of grouped corners
 }
 
 // buildCompositionMap reads the request's settings and places the samples.
@@ -290,6 +292,7 @@ func (s *Server) buildCompositionMap(r *http.Request) (*compositionMapData, erro
 	d.Points = make([]mapPoint, 0, len(samples))
 	d.markers = make([]plot.TernaryMarker, 0, len(samples))
 	tri := f.triangle
+	d.triangle = tri
 	d.Corners = tri.Labels()
 	d.title = strings.Join(d.Corners[:], "–")
 	d.Counts.Total = len(samples)
@@ -323,7 +326,7 @@ func (s *Server) buildCompositionMap(r *http.Request) (*compositionMapData, erro
 	d.Counts.Shown = len(d.Points)
 
 	shares := tri.GroupShares(plot.PooledShares, shown)
-	d.ShareRule, d.Shares = shares.Rule, shares.Corner
+	d.ShareRule, d.Shares, d.pooled = shares.Rule, shares.Corner, shares.Pooled
 	switch {
 	case f.scheme == nil:
 		d.LinesNote = "no valence scheme is set up, so there are no e/a lines"
@@ -403,7 +406,7 @@ func (d *compositionMapData) svgNotes(f sampleFilter) []string {
 	if d.Scheme != "" && len(d.Isolines) > 0 {
 		notes = append(notes, "dashed lines: e/a, "+d.Scheme)
 		if desc := (plot.Shares{Rule: d.ShareRule, Corner: d.Shares}).Describe(); desc != "" {
-			notes = append(notes, desc+" (pooled over the samples shown)")
+			notes = append(notes, fmt.Sprintf("%s (pooled over %d samples shown)", desc, d.pooled))
 		}
 	} else if d.LinesNote != "" {
 		notes = append(notes, d.LinesNote)
@@ -433,12 +436,7 @@ func (f *sampleFilter) describe() string {
 }
 
 func (d *compositionMapData) svg() []byte {
-	tri := plot.Triangle{}
-	for i, label := range d.Corners {
-		c, _ := plot.ParseCorner(label)
-		tri.Corners[i] = c
-	}
-	m := plot.TernaryMap{Triangle: tri, Title: d.title, Notes: d.notes, Markers: d.markers, Isolines: d.Isolines}
+	m := plot.TernaryMap{Triangle: d.triangle, Title: d.title, Notes: d.notes, Markers: d.markers, Isolines: d.Isolines}
 	return m.SVG()
 }
 
