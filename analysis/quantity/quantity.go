@@ -194,14 +194,7 @@ func normaliseUnit(s string) string {
 	if s == "" {
 		return s
 	}
-	r := strings.NewReplacer(
-		"μ", "µ", // Greek mu → micro sign
-		"²", "2", "^2", "2", "⁻¹", "-1", "⁻²", "-2", "^-1", "-1", "^-2", "-2",
-		"·", "", "⋅", "", "*", "", " ", "", "(", "", ")", "",
-		"º", "°", // ordinal indicator typed for a degree sign
-		"deg", "°",
-	)
-	s = r.Replace(s)
+	s = unitSpellings.Replace(s)
 	switch s {
 	case "°C", "°c", "oC", "C", "℃":
 		return "°C"
@@ -209,22 +202,40 @@ func normaliseUnit(s string) string {
 	return s
 }
 
+// unitSpellings folds the variants people type onto one spelling.
+var unitSpellings = strings.NewReplacer(
+	"μ", "µ", // Greek mu → micro sign
+	"²", "2", "^2", "2", "⁻¹", "-1", "⁻²", "-2", "^-1", "-1", "^-2", "-2",
+	"·", "", "⋅", "", "*", "", " ", "", "(", "", ")", "",
+	"º", "°", // ordinal indicator typed for a degree sign
+	"deg", "°",
+)
+
 func lookup(d Dimension, typed string) (unit, bool) {
-	n := normaliseUnit(typed)
-	for _, u := range unitsOf(d) {
-		for _, name := range u.names {
-			if n == normaliseUnit(name) {
-				return u, true
-			}
-		}
-		for _, name := range u.aliases {
-			if n == normaliseUnit(name) {
-				return u, true
-			}
-		}
-	}
-	return unit{}, false
+	unitsOf(d) // panics on an unknown dimension
+	u, ok := unitIndex[d][normaliseUnit(typed)]
+	return u, ok
 }
+
+// unitIndex maps each dimension's normalised unit names and aliases to the
+// unit, first listed first.
+var unitIndex = func() map[Dimension]map[string]unit {
+	idx := make(map[Dimension]map[string]unit, len(units))
+	for d, us := range units {
+		m := make(map[string]unit)
+		for _, u := range us {
+			for _, names := range [][]string{u.names, u.aliases} {
+				for _, name := range names {
+					if _, seen := m[normaliseUnit(name)]; !seen {
+						m[normaliseUnit(name)] = u
+					}
+				}
+			}
+		}
+		idx[d] = m
+	}
+	return idx
+}()
 
 func listedNames(d Dimension) string {
 	var names []string
