@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"github.com/spf13/cobra"
+	"golang.org/x/term"
 
 	"meltbook"
 )
@@ -49,9 +50,7 @@ func addCommand(b func(*app) *cobra.Command) { commandBuilders = append(commandB
 func Run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	a := &app{stdin: stdin, stdout: stdout, stderr: stderr, now: time.Now}
 	if f, ok := stdin.(*os.File); ok {
-		if st, err := f.Stat(); err == nil && st.Mode()&os.ModeCharDevice != 0 {
-			a.interactive = true
-		}
+		a.interactive = term.IsTerminal(int(f.Fd()))
 	}
 	root := newRootCommand(a)
 	root.SetArgs(args)
