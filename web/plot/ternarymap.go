@@ -191,6 +191,7 @@ func (m *TernaryMap) isolines(w *svg, occ *occupancy) {
 		if !ok {
 			continue
 		}
+		occ.reserve(x, y)
 		w.raw("<text")
 		w.numAttr("x", x, 1)
 		w.numAttr("y", y, 1)
@@ -209,7 +210,9 @@ func (m *TernaryMap) isolines(w *svg, occ *occupancy) {
 
 // labelPlace puts a label on the longest polyline, in pixels, turned to
 // read left to right: of eleven places spread along its middle 80 %, the one
-// with fewest markers near it, and of equals the one nearest the middle.
+// with fewest markers near it, and of equals the one nearest the middle. A
+// place next to another label is never taken; when every place is, the line
+// goes without a label (dense lines are then labelled every so often).
 func labelPlace(lines [][]Ternary, occ *occupancy) (x, y, angleDeg float64, ok bool) {
 	var best []Ternary
 	bestLen := 0.0
@@ -231,7 +234,7 @@ func labelPlace(lines [][]Ternary, occ *occupancy) (x, y, angleDeg float64, ok b
 			x, y, angleDeg, bestScore, bestOff = px, py, a, score, off
 		}
 	}
-	return x, y, angleDeg, true
+	return x, y, angleDeg, bestScore < labelTaken
 }
 
 // pointAlong returns the pixel point at distance along a polyline and the
@@ -262,13 +265,16 @@ func pointAlong(line []Ternary, along float64) (x, y, angleDeg float64) {
 }
 
 // occupancy counts markers in square cells of the map, to find room for
-// labels.
+// labels; cells next to a placed label count as labelTaken.
 type occupancy struct {
 	cols, rows int
 	count      []int
 }
 
-const occupancyCell = 16.0 // pixels
+const (
+	occupancyCell = 16.0 // pixels
+	labelTaken    = 1 << 30
+)
 
 func newOccupancy(markers []TernaryMarker) *occupancy {
 	o := &occupancy{cols: int(math.Ceil(mapWidth / occupancyCell)), rows: int(math.Ceil(mapHeight / occupancyCell))}
@@ -280,6 +286,20 @@ func newOccupancy(markers []TernaryMarker) *occupancy {
 		}
 	}
 	return o
+}
+
+// reserve marks the cell of a label at (x, y) and the eight around it. As
+// near looks one cell each way, no later label lands within two cells
+// (32 px) of it along either axis.
+func (o *occupancy) reserve(x, y float64) {
+	c0, r0 := int(x/occupancyCell), int(y/occupancyCell)
+	for r := r0 - 1; r <= r0+1; r++ {
+		for c := c0 - 1; c <= c0+1; c++ {
+			if c >= 0 && c < o.cols && r >= 0 && r < o.rows {
+				o.count[r*o.cols+c] = labelTaken
+			}
+		}
+	}
 }
 
 // near counts the markers in the cell of (x, y) and the eight around it.
