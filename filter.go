@@ -2,7 +2,6 @@ package meltbook
 
 import (
 	"math"
-	"strings"
 	"time"
 )
 
@@ -119,8 +118,8 @@ func (f *MeltFilter) Validate() error {
 		}
 	}
 	for _, e := range f.Elements {
-		if strings.TrimSpace(e) == "" {
-			return Errorf(Invalid, "elements", "empty element symbol")
+		if !looksLikeSymbol(e) {
+			return Errorf(Invalid, "elements", "%q is not an element symbol such as Al or Cu", e)
 		}
 	}
 	if f.OnlyElements && len(f.Elements) == 0 {
@@ -128,8 +127,8 @@ func (f *MeltFilter) Validate() error {
 	}
 	for _, fr := range f.Fractions {
 		field := "fraction." + fr.Element
-		if strings.TrimSpace(fr.Element) == "" {
-			return Errorf(Invalid, "fraction", "a fraction range needs an element")
+		if !looksLikeSymbol(fr.Element) {
+			return Errorf(Invalid, "fraction", "%q is not an element symbol such as Al or Cu", fr.Element)
 		}
 		if err := fr.validate(field); err != nil {
 			return err
@@ -169,6 +168,20 @@ func (f *MeltFilter) Validate() error {
 		return Errorf(Invalid, "limit", "limit and offset must not be negative")
 	}
 	return nil
+}
+
+// looksLikeSymbol reports whether s has the shape of an element symbol: a
+// capital letter and up to two small ones.
+func looksLikeSymbol(s string) bool {
+	if len(s) == 0 || len(s) > 3 || s[0] < 'A' || s[0] > 'Z' {
+		return false
+	}
+	for i := 1; i < len(s); i++ {
+		if s[i] < 'a' || s[i] > 'z' {
+			return false
+		}
+	}
+	return true
 }
 
 func isPhaseKind(k PhaseKind) bool {

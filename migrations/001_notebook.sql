@@ -8,6 +8,10 @@
 --     so that text order is time order; PostgreSQL would use TIMESTAMPTZ.
 -- Physical quantities are in SI units or carry their unit in the column
 -- name (_g grams, _pct percent, _k_per_s kelvin per second).
+--
+-- Indexes serve the queries the store runs; an index on a column with few
+-- distinct values (a step's kind, a parameter's name) would mislead SQLite's
+-- planner before ANALYZE has run, so there are none.
 
 -- Notebook-wide settings, e.g. the fingerprint of the valence tables the
 -- stored e/a columns were computed with.
@@ -16,9 +20,11 @@ CREATE TABLE notebook_setting (
     value TEXT NOT NULL
 );
 
--- One alloy button. e_over_a_* and cooling_rate_k_per_s are derived from
--- the nominal composition and the melt-spin step, kept here (indexed) so
--- that searches over many melts stay fast; NULL when undefined.
+-- One alloy button. element_set, e_over_a_* and cooling_rate_k_per_s are
+-- derived from the nominal composition and the melt-spin step, kept here
+-- (indexed) so that searches over many melts stay fast. element_set lists
+-- the elements present, sorted and comma-wrapped: ',Al,Cu,Fe,'. e/a and
+-- cooling rate are NULL when undefined.
 CREATE TABLE melt (
     id                   INTEGER PRIMARY KEY,
     code                 TEXT NOT NULL UNIQUE,
@@ -28,12 +34,14 @@ CREATE TABLE melt (
     target_mass_g        DOUBLE PRECISION NOT NULL CHECK (target_mass_g > 0),
     mass_after_melt_g    DOUBLE PRECISION CHECK (mass_after_melt_g > 0),
     notes                TEXT NOT NULL DEFAULT '',
+    element_set          TEXT NOT NULL,
     e_over_a_group       DOUBLE PRECISION,
     e_over_a_raynor      DOUBLE PRECISION,
     cooling_rate_k_per_s DOUBLE PRECISION
 );
 CREATE INDEX melt_by_created_at ON melt (created_at);
 CREATE INDEX melt_by_operator ON melt (operator);
+CREATE INDEX melt_by_element_set ON melt (element_set);
 CREATE INDEX melt_by_e_over_a_group ON melt (e_over_a_group);
 CREATE INDEX melt_by_e_over_a_raynor ON melt (e_over_a_raynor);
 CREATE INDEX melt_by_cooling_rate ON melt (cooling_rate_k_per_s);
@@ -82,7 +90,6 @@ CREATE TABLE process_step (
     notes     TEXT NOT NULL DEFAULT '',
     UNIQUE (sample_id, seq)
 );
-CREATE INDEX process_step_by_kind ON process_step (kind);
 
 -- A step parameter: a number in SI units (value_si) with the unit it was
 -- entered in, or a text (text_value).
@@ -95,7 +102,6 @@ CREATE TABLE step_param (
     text_value TEXT NOT NULL DEFAULT '',
     PRIMARY KEY (step_id, name)
 );
-CREATE INDEX step_param_by_value ON step_param (name, value_si);
 
 CREATE TABLE measured_composition (
     id          INTEGER PRIMARY KEY,
@@ -117,7 +123,6 @@ CREATE TABLE measured_fraction (
     uncertainty    DOUBLE PRECISION,
     PRIMARY KEY (measurement_id, element)
 );
-CREATE INDEX measured_fraction_by_fraction ON measured_fraction (element, fraction);
 
 CREATE TABLE symmetry_observation (
     id          INTEGER PRIMARY KEY,
@@ -135,7 +140,6 @@ CREATE TABLE symmetry_fold (
     fold           INTEGER NOT NULL,
     PRIMARY KEY (observation_id, position)
 );
-CREATE INDEX symmetry_fold_by_fold ON symmetry_fold (fold);
 
 -- A phase found in a sample. A person's outcome (source 'person') is
 -- always 'confirmed'; an automatic one starts 'proposed' and a person

@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"sort"
+	"strings"
 
 	"meltbook"
 )
@@ -35,6 +36,19 @@ func eOverA(fractions []meltbook.ElementFraction, valence map[string]float64) (v
 		value += f.Fraction * v
 	}
 	return value, true
+}
+
+// elementSet is the melt's element_set column: the elements present
+// (fraction > 0), sorted and comma-wrapped, e.g. ",Al,Cu,Fe,".
+func elementSet(nominal []meltbook.ElementFraction) string {
+	var els []string
+	for _, f := range nominal {
+		if f.Fraction > 0 {
+			els = append(els, f.Element)
+		}
+	}
+	sort.Strings(els)
+	return "," + strings.Join(els, ",") + ","
 }
 
 // eOverAColumns returns the values of the e_over_a_group and

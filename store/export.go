@@ -417,6 +417,10 @@ func jsonError(b []byte, err error) error {
 	if offset < 0 || offset > int64(len(b)) {
 		return meltbook.Errorf(invalid, "document", "not a notebook document: %v", err)
 	}
+	// The decoder's offset is just past the byte at fault.
+	if offset > 0 {
+		offset--
+	}
 	line := 1 + bytes.Count(b[:offset], []byte("\n"))
 	col := int(offset) - bytes.LastIndexByte(b[:offset], '\n')
 	return meltbook.Errorf(invalid, fmt.Sprintf("document line %d, column %d", line, col), "%v", err)
@@ -645,9 +649,9 @@ func (t *txn) importMelt(dm *DocMelt) error {
 	m.ID = dm.ID
 	group, raynor := t.s.eOverAColumns(m.Nominal)
 	if _, err := t.exec(`INSERT INTO melt (id, code, operator, created_at, composition_entered, target_mass_g,
-			mass_after_melt_g, notes, e_over_a_group, e_over_a_raynor) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+			mass_after_melt_g, notes, element_set, e_over_a_group, e_over_a_raynor) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		m.ID, m.Code, m.Operator, formatTime(m.CreatedAt), m.CompositionEntered, m.TargetMassGrams,
-		nullFloat(m.MassAfterMeltGrams), m.Notes, group, raynor); err != nil {
+		nullFloat(m.MassAfterMeltGrams), m.Notes, elementSet(m.Nominal), group, raynor); err != nil {
 		return err
 	}
 	if err := t.insertComposition(&m); err != nil {

@@ -28,15 +28,18 @@ func (s *Store) FindMelts(ctx context.Context, f meltbook.MeltFilter) ([]meltboo
 	var rows []meltbook.MeltSummary
 	total := 0
 	err = s.read(ctx, func(t *txn) error {
-		if err := t.queryRow(q.count, q.countArgs...).Scan(&total); err != nil {
-			return fmt.Errorf("count melts: %w", err)
-		}
-		if total == 0 || f.Offset >= total {
-			return nil
-		}
 		var err error
-		rows, err = t.findPage(q, &f)
-		return err
+		if rows, total, err = t.findPage(q, &f); err != nil {
+			return err
+		}
+		// The page counts all matches; a page past the end has no row to
+		// carry the count.
+		if len(rows) == 0 && f.Offset > 0 {
+			if err := t.queryRow(q.count, q.countArgs...).Scan(&total); err != nil {
+				return fmt.Errorf("count melts: %w", err)
+			}
+		}
+		return nil
 	})
 	if err != nil {
 		return nil, 0, fmt.Errorf("find melts: %w", err)
@@ -102,10 +105,15 @@ func placeholders(n int) string {
 }
 
 // rangeConds adds expr's range conditions; a range with no ends only asks
-// for a value.
+// for a value. A closed range is one BETWEEN, which evaluates expr once.
 func rangeConds(expr sqlExpr, r *meltbook.Range, where *[]sqlExpr) {
-	if r.Min == nil && r.Max == nil {
+	switch {
+	case r.Min == nil && r.Max == nil:
 		*where = append(*where, sqlExpr{sql: expr.sql + " IS NOT NULL", args: expr.args})
+		return
+	case r.Min != nil && r.Max != nil:
+		*where = append(*where, sqlExpr{sql: expr.sql + " BETWEEN ? AND ?", args: append(append([]any{}, expr.args...), *r.Min, *r.Max)})
+		return
 	}
 	if r.Min != nil {
 		*where = append(*where, sqlExpr{sql: expr.sql + " >= ?", args: append(append([]any{}, expr.args...), *r.Min)})
@@ -129,9 +137,10 @@ func asciiLower(s string) string {
 // likePattern makes a LIKE pattern matching text anywhere, with '\' as
 // the escape character.
 func likePattern(text string) string {
-	r := strings.NewReplacer(`\`, `\\`, `%`, `\%`, `_`, `\_`)
-	return "%" + r.Replace(asciiLower(text)) + "%"
+	return "%" + likeEscaper.Replace(asciiLower(text)) + "%"
 }
+
+var likeEscaper = strings.NewReplacer(`\`, `\\`, `%`, `\%`, `_`, `\_`)
 
 func buildFind(f *meltbook.MeltFilter) (*findQuery, error) {
 	ea, err := eOverAExpr(f)
@@ -154,16 +163,17 @@ func buildFind(f *meltbook.MeltFilter) (*findQuery, error) {
 		add(`m.id IN (SELECT sa.melt_id FROM outcome o JOIN sample sa ON sa.id = o.sample_id
 			WHERE o.kind IN (`+placeholders(len(args))+`) AND (`+standing+`))`, args...)
 	}
-	for _, el := range f.Elements {
-		add(`m.id IN (SELECT melt_id FROM melt_element WHERE element = ? AND fraction > 0)`, el)
-	}
 	if f.OnlyElements {
-		args := make([]any, len(f.Elements))
+		// All of these and no others: exactly this set.
+		set := make([]meltbook.ElementFraction, len(f.Elements))
 		for i, el := range f.Elements {
-			args[i] = el
+			set[i] = meltbook.ElementFraction{Element: el, Fraction: 1}
 		}
-		add(`NOT EXISTS (SELECT 1 FROM melt_element e WHERE e.melt_id = m.id AND e.fraction > 0
-			AND e.element NOT IN (`+placeholders(len(args))+`))`, args...)
+		add(`m.element_set = ?`, elementSet(set))
+	} else {
+		for _, el := range f.Elements {
+			add(`m.element_set LIKE ? ESCAPE '\'`, "%,"+likeEscaper.Replace(el)+",%")
+		}
 	}
 	for _, fr := range f.Fractions {
 		lo, hi := 0.0, 1.0
@@ -235,7 +245,7 @@ func buildFind(f *meltbook.MeltFilter) (*findQuery, error) {
 	q := &findQuery{
 		count:     "SELECT COUNT(*) FROM melt m" + cond.String(),
 		countArgs: condArgs,
-		page: "SELECT m.id, m.code, m.created_at, m.operator, " + ea.sql + ", m.cooling_rate_k_per_s FROM melt m" +
+		page: "SELECT m.id, m.code, m.created_at, m.operator, " + ea.sql + ", m.cooling_rate_k_per_s, COUNT(*) OVER () FROM melt m" +
 			cond.String() + " ORDER BY " + order.sql + dir + " NULLS LAST, m.code ASC LIMIT ? OFFSET ?",
 	}
 	q.pageArgs = append(q.pageArgs, ea.args...)
@@ -248,25 +258,25 @@ func buildFind(f *meltbook.MeltFilter) (*findQuery, error) {
 // findChunk bounds the number of ids in one IN list.
 const findChunk = 500
 
-func (t *txn) findPage(q *findQuery, f *meltbook.MeltFilter) ([]meltbook.MeltSummary, error) {
+// findPage returns one page of matches and the number of all matches.
+func (t *txn) findPage(q *findQuery, f *meltbook.MeltFilter) (out []meltbook.MeltSummary, total int, err error) {
 	rows, err := t.query(q.page, q.pageArgs...)
 	if err != nil {
-		return nil, err
+		return nil, 0, err
 	}
-	var out []meltbook.MeltSummary
 	var ids []int64
 	for rows.Next() {
 		var r meltbook.MeltSummary
 		var id int64
 		var created string
 		var ea, cooling sql.NullFloat64
-		if err := rows.Scan(&id, &r.Code, &created, &r.Operator, &ea, &cooling); err != nil {
+		if err := rows.Scan(&id, &r.Code, &created, &r.Operator, &ea, &cooling, &total); err != nil {
 			rows.Close()
-			return nil, err
+			return nil, 0, err
 		}
 		if r.CreatedAt, err = parseTime(created); err != nil {
 			rows.Close()
-			return nil, err
+			return nil, 0, err
 		}
 		r.Scheme = f.Scheme
 		r.EOverA, r.CoolingRateKPerS = floatPtr(ea), floatPtr(cooling)
@@ -276,7 +286,7 @@ func (t *txn) findPage(q *findQuery, f *meltbook.MeltFilter) ([]meltbook.MeltSum
 	}
 	rows.Close()
 	if err := rows.Err(); err != nil {
-		return nil, err
+		return nil, 0, err
 	}
 	index := make(map[int64]int, len(ids))
 	for i, id := range ids {
@@ -296,41 +306,41 @@ func (t *txn) findPage(q *findQuery, f *meltbook.MeltFilter) ([]meltbook.MeltSum
 		rows, err := t.query(`SELECT melt_id, element, fraction FROM melt_element WHERE melt_id IN (`+in+`)
 			ORDER BY melt_id, position`, args...)
 		if err != nil {
-			return nil, err
+			return nil, 0, err
 		}
 		for rows.Next() {
 			var id int64
 			var ef meltbook.ElementFraction
 			if err := rows.Scan(&id, &ef.Element, &ef.Fraction); err != nil {
 				rows.Close()
-				return nil, err
+				return nil, 0, err
 			}
 			r := &out[index[id]]
 			r.Nominal = append(r.Nominal, ef)
 		}
 		rows.Close()
 		if err := rows.Err(); err != nil {
-			return nil, err
+			return nil, 0, err
 		}
 		rows, err = t.query(`SELECT `+outcomeColumns+`, sa.melt_id FROM outcome o JOIN sample sa ON sa.id = o.sample_id
 			WHERE sa.melt_id IN (`+in+`) AND (`+shown+`) ORDER BY sa.melt_id, `+outcomeRank+`, sa.id, o.id`, args...)
 		if err != nil {
-			return nil, err
+			return nil, 0, err
 		}
 		for rows.Next() {
 			var id int64
 			o, err := scanOutcome(scanPrefix{rows, &id})
 			if err != nil {
 				rows.Close()
-				return nil, err
+				return nil, 0, err
 			}
 			r := &out[index[id]]
 			r.Outcomes = append(r.Outcomes, *o)
 		}
 		rows.Close()
 		if err := rows.Err(); err != nil {
-			return nil, err
+			return nil, 0, err
 		}
 	}
-	return out, nil
+	return out, total, nil
 }

@@ -118,10 +118,10 @@ func (t *txn) createMelt(nm *NewMelt) error {
 	m.CreatedAt = m.CreatedAt.UTC()
 	group, raynor := t.s.eOverAColumns(m.Nominal)
 	id, err := t.insert(`INSERT INTO melt (id, code, operator, created_at, composition_entered, target_mass_g,
-			mass_after_melt_g, notes, e_over_a_group, e_over_a_raynor)
-		VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`,
+			mass_after_melt_g, notes, element_set, e_over_a_group, e_over_a_raynor)
+		VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`,
 		idArg(m.ID), m.Code, m.Operator, formatTime(m.CreatedAt), m.CompositionEntered, m.TargetMassGrams,
-		nullFloat(m.MassAfterMeltGrams), m.Notes, group, raynor)
+		nullFloat(m.MassAfterMeltGrams), m.Notes, elementSet(m.Nominal), group, raynor)
 	if isConstraint(err) {
 		return meltbook.Errorf(conflict, "code", "melt %s already exists", m.Code)
 	}
@@ -387,9 +387,9 @@ func (s *Store) AmendMelt(ctx context.Context, who, code string, u meltbook.Melt
 		}
 		group, raynor := t.s.eOverAColumns(m.Nominal)
 		if _, err := t.exec(`UPDATE melt SET operator = ?, created_at = ?, composition_entered = ?, target_mass_g = ?,
-				mass_after_melt_g = ?, notes = ?, e_over_a_group = ?, e_over_a_raynor = ? WHERE id = ?`,
+				mass_after_melt_g = ?, notes = ?, element_set = ?, e_over_a_group = ?, e_over_a_raynor = ? WHERE id = ?`,
 			m.Operator, formatTime(m.CreatedAt), m.CompositionEntered, m.TargetMassGrams,
-			nullFloat(m.MassAfterMeltGrams), m.Notes, group, raynor, m.ID); err != nil {
+			nullFloat(m.MassAfterMeltGrams), m.Notes, elementSet(m.Nominal), group, raynor, m.ID); err != nil {
 			return fmt.Errorf("amend melt %s: %w", code, err)
 		}
 		if nominalChanged || weighOutChanged {

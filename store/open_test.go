@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"database/sql"
+	"fmt"
 	"os"
 	"path/filepath"
 	"testing"
@@ -235,4 +236,35 @@ func abs(x float64) float64 {
 		return -x
 	}
 	return x
+}
+
+func TestCloseGathersPlannerStatistics(t *testing.T) {
+	ctx := context.Background()
+	p := filepath.Join(t.TempDir(), "notebook.db")
+	s, err := store.Init(ctx, p, store.Options{Valences: testValences})
+	if err != nil {
+		t.Fatal(err)
+	}
+	batch := make([]store.NewMelt, 120)
+	for i := range batch {
+		batch[i] = store.NewMelt{Melt: *newMelt(fmt.Sprintf("QX-%04d", i+1)), Steps: []meltbook.ProcessStep{meltSpin(1e6)}}
+	}
+	if err := s.CreateMelts(ctx, "Ines Marlow", batch); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Close(); err != nil {
+		t.Fatal(err)
+	}
+	db, err := sql.Open("sqlite", p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	var samples int
+	if err := db.QueryRow("SELECT COUNT(*) FROM sqlite_stat4 WHERE tbl = 'melt'").Scan(&samples); err != nil {
+		t.Fatal(err)
+	}
+	if samples == 0 {
+		t.Fatal("no value histograms for the melt table after closing a grown notebook")
+	}
 }

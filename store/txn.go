@@ -58,7 +58,7 @@ func (s *Store) read(ctx context.Context, fn func(t *txn) error) error {
 		return fmt.Errorf("begin: %w", err)
 	}
 	defer tx.Rollback()
-	t := &txn{ctx: ctx, tx: tx, s: s, now: s.now().UTC(), stmts: map[string]*sql.Stmt{}}
+	t := &txn{ctx: ctx, tx: tx, s: s, stmts: map[string]*sql.Stmt{}}
 	defer t.close()
 	if err := fn(t); err != nil {
 		return err
