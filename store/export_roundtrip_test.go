@@ -14,7 +14,7 @@ import (
 )
 
 // fillNotebook writes one of everything the notebook holds.
-func fillNotebook(t *testing.T, s *store.Store) {
+func fillNotebook(t testing.TB, s *store.Store) {
 	t.Helper()
 	ctx := context.Background()
 	who := "Ines Marlow"

@@ -56,8 +56,8 @@ func (s *Store) CreateMelt(ctx context.Context, who string, m *meltbook.Melt, st
 
 // CreateMelts logs many melts in one transaction: all are stored or none.
 // It is the fast path for importing a run list. It fills in each entry's
-// Melt.ID and zero CreatedAt as CreateMelt does; a failing entry is named
-// by an *EntryError.
+// Melt.ID and zero CreatedAt as CreateMelt does (after a failure they mean
+// nothing); a failing entry is named by an *EntryError.
 func (s *Store) CreateMelts(ctx context.Context, who string, batch []NewMelt) error {
 	for i := range batch {
 		if err := prepareNewMelt(&batch[i], who); err != nil {
