@@ -7,6 +7,7 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"slices"
 	"sort"
 	"strings"
 
@@ -48,7 +49,7 @@ func elementSet(nominal []meltbook.ElementFraction) string {
 		}
 	}
 	sort.Strings(els)
-	return "," + strings.Join(els, ",") + ","
+	return "," + strings.Join(slices.Compact(els), ",") + ","
 }
 
 // eOverAColumns returns the values of the e_over_a_group and

@@ -117,7 +117,7 @@ func TestFindMelts(t *testing.T) {
 		{"approximant or crystalline", meltbook.MeltFilter{Outcomes: []meltbook.PhaseKind{meltbook.Approximant, meltbook.Crystalline}}, "3 6"},
 		{"all of Al Cu Fe", meltbook.MeltFilter{Elements: alCuFe}, "1 2 3 5 7 8"},
 		{"only Al Cu Fe", meltbook.MeltFilter{Elements: alCuFe, OnlyElements: true}, "1 2 3 5 8"},
-		{"only Al Cu", meltbook.MeltFilter{Elements: []string{"Cu", "Al"}, OnlyElements: true}, "6"},
+		{"only Al Cu", meltbook.MeltFilter{Elements: []string{"Cu", "Al", "Cu"}, OnlyElements: true}, "6"},
 		{"Cu 0.20..0.25", meltbook.MeltFilter{Fractions: []meltbook.FractionRange{{Element: "Cu", Range: *meltbook.Between(0.20, 0.25)}}}, "1 2 7 8"},
 		{"Fe at most 0.12, absent counts", meltbook.MeltFilter{Fractions: []meltbook.FractionRange{{Element: "Fe", Range: *meltbook.AtMost(0.12)}}}, "2 4 5 6"},
 		{"Fe at least 0.15", meltbook.MeltFilter{Fractions: []meltbook.FractionRange{{Element: "Fe", Range: *meltbook.AtLeast(0.15)}}}, "1 7 8"},

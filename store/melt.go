@@ -415,12 +415,12 @@ func weighOutChanges(old, new []meltbook.WeighOutLine) []change {
 		if w == nil {
 			return ""
 		}
-		s := fmt.Sprintf("planned %s g, weighed %s g, purity %s %%, loss %s %%", formatFloat(w.PlannedGrams),
-			formatOptionalFloat(w.WeighedGrams), formatFloat(w.PurityPercent), formatFloat(w.LossPercent))
-		if w.WeighedGrams == nil {
-			s = strings.Replace(s, "weighed  g", "not weighed", 1)
+		weighed := "not weighed"
+		if w.WeighedGrams != nil {
+			weighed = "weighed " + formatFloat(*w.WeighedGrams) + " g"
 		}
-		return s
+		return fmt.Sprintf("planned %s g, %s, purity %s %%, loss %s %%", formatFloat(w.PlannedGrams),
+			weighed, formatFloat(w.PurityPercent), formatFloat(w.LossPercent))
 	}
 	find := func(ws []meltbook.WeighOutLine, el string) *meltbook.WeighOutLine {
 		for i := range ws {

@@ -334,6 +334,17 @@ func TestAmendMeltRecordsBeforeAndAfter(t *testing.T) {
 	if len(r.Melt.WeighOut) != 3 {
 		t.Fatalf("weigh-out %+v", r.Melt.WeighOut)
 	}
+	// Weighing one element changes one weigh-out line.
+	lines := append([]meltbook.WeighOutLine(nil), r.Melt.WeighOut...)
+	lines[1].WeighedGrams = ptr(2.841)
+	hs, err = s.AmendMelt(ctx, "Jon Pell", "QX-0001", meltbook.MeltUpdate{WeighOut: lines}, "weighed the copper")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(hs) != 1 || hs[0].Field != "weigh-out.Cu" || hs[0].Before != "planned 2.84 g, not weighed, purity 99.99 %, loss 0 %" ||
+		hs[0].After != "planned 2.84 g, weighed 2.841 g, purity 99.99 %, loss 0 %" {
+		t.Fatalf("weigh-out history %+v", hs)
+	}
 	// An amendment that breaks validation is refused.
 	_, err = s.AmendMelt(ctx, "Jon Pell", "QX-0001", meltbook.MeltUpdate{Nominal: fractions("Al", 0.5)}, "oops")
 	wantKind(t, err, meltbook.Invalid, "composition")
