@@ -7,7 +7,7 @@ import (
 
 	"github.com/go-chi/chi/v5"
 
-	"meltbook/query"
+	"meltbook/store/query"
 )
 
 // The JSON API mirrors the pages:

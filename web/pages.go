@@ -14,7 +14,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"meltbook"
-	"meltbook/query"
+	"meltbook/store/query"
 	"meltbook/web/plot"
 )
 

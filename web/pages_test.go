@@ -14,7 +14,7 @@ import (
 	"testing"
 
 	"meltbook"
-	"meltbook/query"
+	"meltbook/store/query"
 	"meltbook/web"
 )
 

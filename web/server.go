@@ -22,7 +22,7 @@ import (
 	"meltbook"
 	"meltbook/analysis/descriptor"
 	"meltbook/analysis/element"
-	"meltbook/query"
+	"meltbook/store/query"
 )
 
 // Config is what a Server needs.

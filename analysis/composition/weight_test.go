@@ -9,7 +9,7 @@ import (
 	"testing"
 
 	"meltbook/analysis/composition"
-	"meltbook/internal/pyref"
+	"meltbook/analysis/internal/pyref"
 )
 
 // qcElements are elements common in quasicrystal and approximant work

@@ -7,7 +7,7 @@ import (
 
 	"meltbook/analysis/composition"
 	"meltbook/analysis/descriptor"
-	"meltbook/internal/pyref"
+	"meltbook/analysis/internal/pyref"
 )
 
 // crossScript computes the same descriptors from pymatgen's own element

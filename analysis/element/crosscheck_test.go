@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"meltbook/analysis/element"
-	"meltbook/internal/pyref"
+	"meltbook/analysis/internal/pyref"
 )
 
 // referenceScript prints, for Z = 1-94, the values that pymatgen and

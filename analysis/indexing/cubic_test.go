@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"meltbook/analysis/indexing"
-	"meltbook/internal/pyref"
+	"meltbook/analysis/internal/pyref"
 )
 
 // patternScript simulates powder patterns with pymatgen's XRDCalculator at

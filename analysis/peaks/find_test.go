@@ -8,10 +8,10 @@ import (
 	"sort"
 	"testing"
 
+	"meltbook/analysis/internal/pyref"
 	"meltbook/analysis/peaks"
 	"meltbook/analysis/radiation"
 	"meltbook/analysis/scanfile"
-	"meltbook/internal/pyref"
 )
 
 // refScript finds and fits peaks with scipy alone: Savitzky-Golay

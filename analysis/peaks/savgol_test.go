@@ -6,8 +6,8 @@ import (
 	"math"
 	"testing"
 
+	"meltbook/analysis/internal/pyref"
 	"meltbook/analysis/peaks"
-	"meltbook/internal/pyref"
 )
 
 func TestSavitzkyGolayTable(t *testing.T) {

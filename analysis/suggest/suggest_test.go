@@ -9,8 +9,8 @@ import (
 	"testing"
 
 	"meltbook"
+	"meltbook/analysis/internal/pyref"
 	"meltbook/analysis/suggest"
-	"meltbook/internal/pyref"
 )
 
 func near(got, want, tol float64) bool { return math.Abs(got-want) <= tol }

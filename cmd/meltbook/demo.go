@@ -14,10 +14,10 @@ import (
 	"github.com/spf13/cobra"
 
 	"meltbook"
+	"meltbook/analysis/campaign"
 	"meltbook/analysis/element"
 	"meltbook/analysis/hazard"
 	"meltbook/analysis/suggest"
-	"meltbook/campaign"
 	"meltbook/seed"
 	"meltbook/store"
 )

@@ -14,8 +14,8 @@ import (
 
 	"meltbook"
 	"meltbook/analysis/element"
-	"meltbook/query"
 	"meltbook/store"
+	"meltbook/store/query"
 )
 
 func init() {

@@ -15,8 +15,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"meltbook"
-	"meltbook/runsheet"
 	"meltbook/store"
+	"meltbook/store/runsheet"
 )
 
 func init() { addCommand(newImportSheetCommand) }

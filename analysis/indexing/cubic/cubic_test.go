@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"meltbook/analysis/indexing/cubic"
-	"meltbook/internal/pyref"
+	"meltbook/analysis/internal/pyref"
 )
 
 // absentScript asks gemmi which reflections of a box are systematically

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"meltbook/runsheet"
+	"meltbook/store/runsheet"
 )
 
 func ExampleRead() {

@@ -9,7 +9,7 @@ import (
 	"time"
 
 	"meltbook"
-	"meltbook/query"
+	"meltbook/store/query"
 )
 
 func summary() meltbook.MeltSummary {

@@ -4,7 +4,7 @@ import (
 	"fmt"
 
 	"meltbook"
-	"meltbook/campaign"
+	"meltbook/analysis/campaign"
 )
 
 func ExampleGroup() {

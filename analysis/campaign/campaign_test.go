@@ -6,11 +6,11 @@ import (
 	"testing"
 
 	"meltbook"
+	"meltbook/analysis/campaign"
 	"meltbook/analysis/element"
 	"meltbook/analysis/suggest"
-	"meltbook/campaign"
-	"meltbook/runsheet"
 	"meltbook/seed"
+	"meltbook/store/runsheet"
 )
 
 func TestTentativeIsOneWord(t *testing.T) {

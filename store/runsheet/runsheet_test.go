@@ -10,7 +10,7 @@ import (
 	"unicode/utf16"
 
 	"meltbook"
-	"meltbook/runsheet"
+	"meltbook/store/runsheet"
 )
 
 // read reads a sheet from text, failing the test on a sheet-level error.

@@ -10,7 +10,7 @@ import (
 	"time"
 
 	"meltbook"
-	"meltbook/query"
+	"meltbook/store/query"
 )
 
 func f64(v float64) *float64 { return &v }
