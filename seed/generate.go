@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"sort"
+	"strings"
 	"time"
 
 	"meltbook"
@@ -252,6 +253,9 @@ func (g *generator) electronsPerAtom(s *system, x vec) (float64, error) {
 	d, err := descriptor.Describe(s.comp(x), g.raynor, descriptor.Options{})
 	if err != nil {
 		return 0, err
+	}
+	if !d.ElectronsPerAtomDefined {
+		return 0, fmt.Errorf("seed: %s", strings.Join(d.Undefined, "; "))
 	}
 	return d.ElectronsPerAtom, nil
 }

@@ -32,18 +32,33 @@ const (
 type Descriptors struct {
 	// Scheme names the valence scheme e/a was computed with.
 	Scheme string
-	// ElectronsPerAtom is e/a = Σ x_i·v_i under Scheme.
+	// ElectronsPerAtom is e/a = Σ x_i·v_i under Scheme; meaningful only
+	// when ElectronsPerAtomDefined.
 	ElectronsPerAtom float64
+	// ElectronsPerAtomDefined is false when the scheme has no valence for
+	// an element; Undefined then says which.
+	ElectronsPerAtomDefined bool
 	// VEC is Σ x_i·VEC_i with the s+d / s+p counts of the element table.
 	VEC float64
 	// MeanRadiusAngstrom is r̄ = Σ x_i·r_i with CN12 metallic radii, Å.
 	MeanRadiusAngstrom float64
-	// SizeMismatchPercent is δ in percent.
+	// SizeMismatchPercent is δ in percent; meaningful only when
+	// SizeMismatchDefined.
 	SizeMismatchPercent float64
+	// SizeMismatchDefined is false when an element has no tabulated CN12
+	// radius.
+	SizeMismatchDefined bool
 	// MeanElectronegativity is χ̄ = Σ x_i·χ_i (Pauling scale).
 	MeanElectronegativity float64
-	// ElectronegativitySpread is Δχ (Pauling scale, dimensionless).
+	// ElectronegativitySpread is Δχ (Pauling scale, dimensionless);
+	// meaningful only when ElectronegativityDefined.
 	ElectronegativitySpread float64
+	// ElectronegativityDefined is false when an element has no tabulated
+	// Pauling electronegativity.
+	ElectronegativityDefined bool
+	// Undefined says, one line each, which descriptors could not be
+	// computed and why.
+	Undefined []string
 	// MeanAtomicMassGPerMol is M̄ = Σ x_i·M_i in g/mol.
 	MeanAtomicMassGPerMol float64
 	// AtomicVolumeA3 is the mean volume per atom in Å³; zero when unknown.
@@ -102,12 +117,14 @@ const (
 //	V   = Σ x_i·M_i/(ρ_i·N_A) otherwise (ideal mixing)      (Å³/atom)
 //	n   = (e/a)/V,  kF = (3π²·n)^(1/3),  2kF                 (Å⁻³, Å⁻¹)
 //
-// c must be a normalised atomic composition (fractions summing to 1). A
-// missing valence in the scheme (an *element.MissingValenceError, wrapped),
-// an unknown element, or an element without
-// a CN12 radius or Pauling electronegativity is an error naming the
-// element. An element without a density only leaves the volume and kF
-// unknown (VolumeMethod says why), unless the alloy density is given. When
+// c must be a normalised atomic composition (fractions summing to 1); an
+// unknown element or a bad fraction is an error. Missing data leaves only
+// the descriptors that need it undefined, each said in Undefined: a missing
+// valence in the scheme leaves e/a, kF and the window comparison undefined;
+// an element without a CN12 radius leaves δ undefined, one without a
+// Pauling electronegativity Δχ. An element without a density only leaves
+// the volume and kF unknown (VolumeMethod says why), unless the alloy
+// density is given. When
 // e/a ≤ 0, which Raynor's negative transition-metal valences can produce,
 // kF is reported undefined rather than computed.
 //
@@ -126,7 +143,7 @@ func Describe(c composition.Composition, scheme element.Scheme, opt Options) (De
 	}
 	d := Descriptors{Scheme: scheme.Name}
 	var total, ea, vec, r, r2, chi, chi2, mass, volume float64
-	var noDensity string
+	var noDensity, noValence, noRadius, noChi string
 	for _, p := range c {
 		x := p.Fraction
 		if x < 0 || math.IsNaN(x) {
@@ -136,18 +153,20 @@ func Describe(c composition.Composition, scheme element.Scheme, opt Options) (De
 		if !ok {
 			return Descriptors{}, fmt.Errorf("describe: unknown element %q", p.Element)
 		}
-		v, err := scheme.Require(p.Element)
-		if err != nil {
-			return Descriptors{}, fmt.Errorf("describe: %w", err)
+		if v, err := scheme.Require(p.Element); err != nil {
+			if noValence == "" {
+				noValence = err.Error()
+			}
+		} else {
+			ea += x * v
 		}
-		if !e.HasMetallicRadius() {
-			return Descriptors{}, fmt.Errorf("describe: no CN12 metallic radius is tabulated for %s, so δ cannot be computed", p.Element)
+		if !e.HasMetallicRadius() && noRadius == "" {
+			noRadius = p.Element
 		}
-		if !e.HasElectronegativity() {
-			return Descriptors{}, fmt.Errorf("describe: no Pauling electronegativity is tabulated for %s, so Δχ cannot be computed", p.Element)
+		if !e.HasElectronegativity() && noChi == "" {
+			noChi = p.Element
 		}
 		total += x
-		ea += x * v
 		vec += x * float64(e.ValenceElectrons)
 		r += x * e.MetallicRadiusCN12
 		r2 += x * e.MetallicRadiusCN12 * e.MetallicRadiusCN12
@@ -166,13 +185,28 @@ func Describe(c composition.Composition, scheme element.Scheme, opt Options) (De
 	}
 	// Divide by the total so that rounding in the fractions does not leak
 	// into the means.
-	d.ElectronsPerAtom = ea / total
 	d.VEC = vec / total
-	d.MeanRadiusAngstrom = r / total
-	d.SizeMismatchPercent = 100 * spread(r/total, r2/total) / d.MeanRadiusAngstrom
-	d.MeanElectronegativity = chi / total
-	d.ElectronegativitySpread = spread(chi/total, chi2/total)
 	d.MeanAtomicMassGPerMol = mass / total
+	if noValence == "" {
+		d.ElectronsPerAtom = ea / total
+		d.ElectronsPerAtomDefined = true
+	} else {
+		d.Undefined = append(d.Undefined, "e/a: "+noValence)
+	}
+	if noRadius == "" {
+		d.MeanRadiusAngstrom = r / total
+		d.SizeMismatchPercent = 100 * spread(r/total, r2/total) / d.MeanRadiusAngstrom
+		d.SizeMismatchDefined = true
+	} else {
+		d.Undefined = append(d.Undefined, "δ: no CN12 metallic radius is tabulated for "+noRadius)
+	}
+	if noChi == "" {
+		d.MeanElectronegativity = chi / total
+		d.ElectronegativitySpread = spread(chi/total, chi2/total)
+		d.ElectronegativityDefined = true
+	} else {
+		d.Undefined = append(d.Undefined, "Δχ: no Pauling electronegativity is tabulated for "+noChi)
+	}
 
 	switch {
 	case opt.DensityGPerCm3 > 0:
@@ -185,6 +219,10 @@ func Describe(c composition.Composition, scheme element.Scheme, opt Options) (De
 		d.VolumeMethod = VolumeIdealMixing
 	}
 
+	if !d.ElectronsPerAtomDefined {
+		d.FermiNote = "e/a is undefined under scheme " + scheme.Name
+		return d, nil
+	}
 	kf, note := FermiWaveNumber(d.ElectronsPerAtom, d.AtomicVolumeA3)
 	if note == "" {
 		d.FermiDefined = true

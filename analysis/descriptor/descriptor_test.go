@@ -1,7 +1,6 @@
 package descriptor_test
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -292,9 +291,7 @@ func TestDescribeErrors(t *testing.T) {
 		opt  descriptor.Options
 		want string
 	}{
-		{"missing valence", comp(t, "Al", 70.0, "Ni", 30.0), groupValences, descriptor.Options{}, `valence scheme "group valences (test table)" has no valence for Ni`},
 		{"unknown element", composition.Composition{{Element: "Qx", Fraction: 1}}, raynor, descriptor.Options{}, `unknown element "Qx"`},
-		{"no radius", composition.Composition{{Element: "O", Fraction: 1}}, element.Scheme{Name: "x", Valence: map[string]float64{"O": -2}}, descriptor.Options{}, "no CN12 metallic radius is tabulated for O"},
 		{"negative density", comp(t, "Al", 1.0), raynor, descriptor.Options{DensityGPerCm3: -1}, "must be positive"},
 		{"empty", nil, raynor, descriptor.Options{}, "empty composition"},
 	}
@@ -323,13 +320,43 @@ func TestBuiltInSchemes(t *testing.T) {
 			}
 		}
 	}
-	// The group scheme leaves Fe undefined: the error names the element,
-	// the scheme and the way out (a typed error from the element package).
+	// The group scheme leaves Fe undefined: e/a is undefined, the note names
+	// the element and the way out, and the other descriptors still come.
 	group, _ := element.LookupScheme(element.GroupScheme)
-	_, err := descriptor.Describe(comp(t, "Al", 65.0, "Cu", 20.0, "Fe", 15.0), group, descriptor.Options{})
-	var missing *element.MissingValenceError
-	if !errors.As(err, &missing) || missing.Symbol != "Fe" || !strings.Contains(err.Error(), "raynor") {
-		t.Errorf("err = %v", err)
+	d, err := descriptor.Describe(comp(t, "Al", 65.0, "Cu", 20.0, "Fe", 15.0), group, descriptor.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.ElectronsPerAtomDefined || d.FermiDefined || len(d.Undefined) != 1 ||
+		!strings.Contains(d.Undefined[0], "Fe") || !strings.Contains(d.Undefined[0], "raynor") {
+		t.Errorf("e/a defined %v, kF defined %v, undefined %q", d.ElectronsPerAtomDefined, d.FermiDefined, d.Undefined)
+	}
+	if !d.SizeMismatchDefined || !d.ElectronegativityDefined {
+		t.Errorf("δ or Δχ undefined although every radius and χ is tabulated: %q", d.Undefined)
+	}
+}
+
+func TestDescribePartial(t *testing.T) {
+	// Oxygen has a Pauling electronegativity but no CN12 metallic radius;
+	// Ni has no valence in a scheme without it.
+	d, err := descriptor.Describe(composition.Composition{{Element: "O", Fraction: 1}},
+		element.Scheme{Name: "x", Valence: map[string]float64{"O": -2}}, descriptor.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.SizeMismatchDefined || !d.ElectronsPerAtomDefined || len(d.Undefined) != 1 || !strings.Contains(d.Undefined[0], "CN12") {
+		t.Errorf("δ defined %v, e/a defined %v, undefined %q", d.SizeMismatchDefined, d.ElectronsPerAtomDefined, d.Undefined)
+	}
+	d, err = descriptor.Describe(comp(t, "Al", 70.0, "Ni", 30.0), groupValences, descriptor.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.ElectronsPerAtomDefined || len(d.Undefined) != 1 || !strings.Contains(d.Undefined[0], `has no valence for Ni`) {
+		t.Errorf("e/a defined %v, undefined %q", d.ElectronsPerAtomDefined, d.Undefined)
+	}
+	// VEC needs no scheme: 0.7·3 + 0.3·10 = 5.1 (Al s²p¹, Ni 3d⁸4s²; common practice).
+	if math.Abs(d.VEC-5.1) > 1e-12 {
+		t.Errorf("VEC = %g, want 5.1", d.VEC)
 	}
 }
 

@@ -19,11 +19,12 @@ type describeJSON struct {
 	Composition     string             `json:"composition"`
 	AtomicFractions map[string]float64 `json:"atomic_fractions"`
 	WeightFractions map[string]float64 `json:"weight_fractions"`
-	EOverA          float64            `json:"e_over_a"`
+	EOverA          *float64           `json:"e_over_a"`
 	Scheme          string             `json:"scheme"`
 	VEC             float64            `json:"vec"`
-	DeltaPct        float64            `json:"delta_pct"`
-	DeltaChi        float64            `json:"delta_chi"`
+	DeltaPct        *float64           `json:"delta_pct"`
+	DeltaChi        *float64           `json:"delta_chi"`
+	Undefined       []string           `json:"undefined"`
 	MeanAtomicMass  float64            `json:"mean_atomic_mass_g_mol"`
 	AtomicVolumeA3  float64            `json:"atomic_volume_A3"`
 	VolumeMethod    string             `json:"atomic_volume_method"`
@@ -93,11 +94,9 @@ func describeResult(p composition.Parsed, wf composition.Composition, d descript
 		Composition:     p.Atomic.Format(2),
 		AtomicFractions: p.Atomic.Map(),
 		WeightFractions: wf.Map(),
-		EOverA:          d.ElectronsPerAtom,
 		Scheme:          d.Scheme,
 		VEC:             d.VEC,
-		DeltaPct:        d.SizeMismatchPercent,
-		DeltaChi:        d.ElectronegativitySpread,
+		Undefined:       append([]string{}, d.Undefined...),
 		MeanAtomicMass:  d.MeanAtomicMassGPerMol,
 		AtomicVolumeA3:  d.AtomicVolumeA3,
 		VolumeMethod:    d.VolumeMethod,
@@ -108,6 +107,15 @@ func describeResult(p composition.Parsed, wf composition.Composition, d descript
 	}
 	if out.Warnings == nil {
 		out.Warnings = []string{}
+	}
+	if d.ElectronsPerAtomDefined {
+		out.EOverA = &d.ElectronsPerAtom
+	}
+	if d.SizeMismatchDefined {
+		out.DeltaPct = &d.SizeMismatchPercent
+	}
+	if d.ElectronegativityDefined {
+		out.DeltaChi = &d.ElectronegativitySpread
 	}
 	if d.FermiDefined {
 		kf, two := d.FermiWaveNumberPerA, d.TwoKFPerA
@@ -133,10 +141,18 @@ func printDescribe(a *app, p composition.Parsed, wf composition.Composition, d d
 	}
 	fmt.Fprintln(w)
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "e/a\t%.3f\t(%s valences)\n", d.ElectronsPerAtom, d.Scheme)
+	fmt.Fprintf(tw, "e/a\t%s\t(%s valences)\n", definedf(d.ElectronsPerAtomDefined, "%.3f", d.ElectronsPerAtom), d.Scheme)
 	fmt.Fprintf(tw, "VEC\t%.3f\t\n", d.VEC)
-	fmt.Fprintf(tw, "δ\t%.2f %%\tsize mismatch, CN12 radii, mean r %.4f Å\n", d.SizeMismatchPercent, d.MeanRadiusAngstrom)
-	fmt.Fprintf(tw, "Δχ\t%.4f\tPauling, mean χ %.3f\n", d.ElectronegativitySpread, d.MeanElectronegativity)
+	if d.SizeMismatchDefined {
+		fmt.Fprintf(tw, "δ\t%.2f %%\tsize mismatch, CN12 radii, mean r %.4f Å\n", d.SizeMismatchPercent, d.MeanRadiusAngstrom)
+	} else {
+		fmt.Fprintln(tw, "δ\tundefined\t")
+	}
+	if d.ElectronegativityDefined {
+		fmt.Fprintf(tw, "Δχ\t%.4f\tPauling, mean χ %.3f\n", d.ElectronegativitySpread, d.MeanElectronegativity)
+	} else {
+		fmt.Fprintln(tw, "Δχ\tundefined\t")
+	}
 	fmt.Fprintf(tw, "mean atomic mass\t%.3f g/mol\t\n", d.MeanAtomicMassGPerMol)
 	if d.AtomicVolumeA3 > 0 {
 		fmt.Fprintf(tw, "atomic volume\t%.3f Å³\t%s\n", d.AtomicVolumeA3, d.VolumeMethod)
@@ -151,6 +167,12 @@ func printDescribe(a *app, p composition.Parsed, wf composition.Composition, d d
 	}
 	if err := tw.Flush(); err != nil {
 		return err
+	}
+	if len(d.Undefined) > 0 {
+		fmt.Fprintln(w)
+		for _, u := range d.Undefined {
+			fmt.Fprintf(w, "undefined %s\n", u)
+		}
 	}
 	if len(d.Flags) > 0 {
 		fmt.Fprintln(w)
@@ -172,4 +194,12 @@ func exactArgs(n int, names string) cobra.PositionalArgs {
 		}
 		return nil
 	}
+}
+
+// definedf formats v, or says "undefined" when it is not.
+func definedf(defined bool, format string, v float64) string {
+	if !defined {
+		return "undefined"
+	}
+	return fmt.Sprintf(format, v)
 }

@@ -68,7 +68,6 @@ func TestDescribeErrors(t *testing.T) {
 		{[]string{"describe", "Al63Cu25Fe12", "--scheme", "no-such-scheme"}, "--scheme"},
 		{[]string{"describe", "Al63Cu25Fe12", "--density", "-3"}, "density"},
 		{[]string{"describe"}, "COMPOSITION"},
-		{[]string{"describe", "Al63Ti37", "--scheme", "group"}, "Ti"},
 	}
 	for _, tc := range tests {
 		t.Run(strings.Join(tc.args, " "), func(t *testing.T) {
@@ -83,5 +82,28 @@ func TestDescribeErrors(t *testing.T) {
 				t.Errorf("stderr holds a stack trace: %s", errOut)
 			}
 		})
+	}
+}
+
+func TestDescribePartial(t *testing.T) {
+	// Raynor gave no valence for Ti, and boron has no CN12 radius in the
+	// element table: e/a and δ are null, the rest is still given.
+	out, errOut, code := runCLI(t, "", "describe", "--json", "(Ti0.5Zr0.5)83Ni17")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got map[string]any
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatal(err)
+	}
+	if got["e_over_a"] != nil || got["vec"] == nil || got["delta_pct"] == nil {
+		t.Errorf("e_over_a %v, vec %v, delta_pct %v", got["e_over_a"], got["vec"], got["delta_pct"])
+	}
+	if u, _ := got["undefined"].([]any); len(u) != 1 || !strings.Contains(u[0].(string), "Ti") {
+		t.Errorf("undefined = %v, want one note naming Ti", got["undefined"])
+	}
+	out, _, code = runCLI(t, "", "describe", "(Al0.7Pd0.2Mn0.1)99B1")
+	if code != 0 || !strings.Contains(out, "δ: no CN12 metallic radius is tabulated for B") {
+		t.Errorf("exit %d, output lacks the undefined δ note:\n%s", code, out)
 	}
 }

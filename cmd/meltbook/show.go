@@ -125,7 +125,13 @@ func printDescriptors(w io.Writer, rec *meltbook.MeltRecord, nominal composition
 		fmt.Fprintf(w, "  not computed: %v\n", err)
 		return
 	}
-	fmt.Fprintf(w, "  e/a %.3f (%s valences)   VEC %.3f   δ %.2f %%   Δχ %.4f\n", d.ElectronsPerAtom, d.Scheme, d.VEC, d.SizeMismatchPercent, d.ElectronegativitySpread)
+	fmt.Fprintf(w, "  e/a %s (%s valences)   VEC %.3f   δ %s   Δχ %s\n",
+		definedf(d.ElectronsPerAtomDefined, "%.3f", d.ElectronsPerAtom), d.Scheme, d.VEC,
+		definedf(d.SizeMismatchDefined, "%.2f %%", d.SizeMismatchPercent),
+		definedf(d.ElectronegativityDefined, "%.4f", d.ElectronegativitySpread))
+	for _, u := range d.Undefined {
+		fmt.Fprintf(w, "  undefined %s\n", u)
+	}
 	var others []string
 	for _, name := range element.SchemeNames() {
 		if name == d.Scheme {
