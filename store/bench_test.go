@@ -3,8 +3,6 @@ package store_test
 import (
 	"context"
 	"fmt"
-	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"sync"
@@ -13,6 +11,7 @@ import (
 
 	"meltbook"
 	"meltbook/store"
+	"meltbook/store/storetest"
 )
 
 func TestMain(m *testing.M) {
@@ -51,57 +50,9 @@ func bigNotebook(b *testing.B) string {
 	return big.path
 }
 
-// generate writes n invented runs in one transaction.
+// generate writes n invented runs in one transaction (package storetest).
 func generate(path string, n int) error {
-	ctx := context.Background()
-	s, err := store.Init(ctx, path, store.Options{Valences: testValences})
-	if err != nil {
-		return err
-	}
-	rng := rand.New(rand.NewPCG(1, 2))
-	systems := [][]string{
-		{"Al", "Cu", "Fe"}, {"Al", "Cu", "Fe"}, {"Al", "Cu", "Fe", "Si"},
-		{"Al", "Pd", "Mn"}, {"Al", "Ni", "Co"}, {"Al", "Mn", "Si"}, {"Al", "Cu", "Cr"}, {"Zn", "Mg", "Al"},
-	}
-	operators := []string{"Ines Marlow", "Jon Pell", "Kai Ostrow", "Lena Fitch", "Omar Vey", "Rui Tanaka"}
-	kinds := meltbook.PhaseKinds
-	t0 := time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC)
-	batch := make([]store.NewMelt, n)
-	for i := range batch {
-		sys := systems[rng.IntN(len(systems))]
-		var parts []meltbook.ElementFraction
-		// Major element 0.5..0.75, the rest shared at random.
-		rest := 1 - (0.5 + 0.25*rng.Float64())
-		parts = append(parts, meltbook.ElementFraction{Element: sys[0], Fraction: math.Round((1-rest)*1000) / 1000})
-		left := math.Round(rest*1000) / 1000
-		for j, el := range sys[1:] {
-			f := left
-			if j < len(sys)-2 {
-				f = math.Round(left*(0.3+0.5*rng.Float64())*1000) / 1000
-			}
-			left = math.Round((left-f)*1000) / 1000
-			parts = append(parts, meltbook.ElementFraction{Element: el, Fraction: f})
-		}
-		m := meltbook.Melt{
-			Code: fmt.Sprintf("GEN-%06d", i+1), Operator: operators[rng.IntN(len(operators))],
-			CompositionEntered: "generated", Nominal: parts, TargetMassGrams: 5 + 15*rng.Float64(),
-			CreatedAt: t0.Add(time.Duration(rng.Int64N(int64(6 * 365 * 24 * time.Hour)))),
-		}
-		nm := store.NewMelt{Melt: m, Steps: []meltbook.ProcessStep{arcMelt(), meltSpin(math.Pow(10, 4+3*rng.Float64()))}}
-		if rng.Float64() < 0.6 {
-			o := meltbook.Outcome{Kind: kinds[rng.IntN(len(kinds))], Order: "1/1", Name: "generated"}
-			if rng.Float64() < 0.3 {
-				o.Source = meltbook.ByAutomatic
-			}
-			nm.Outcomes = []meltbook.Outcome{o}
-		}
-		batch[i] = nm
-	}
-	if err := s.CreateMelts(ctx, "generator", batch); err != nil {
-		s.Close()
-		return err
-	}
-	return s.Close()
+	return storetest.Generate(context.Background(), path, storetest.Options{Melts: n, Store: store.Options{Valences: testValences}})
 }
 
 func BenchmarkCreateMelt(b *testing.B) {
