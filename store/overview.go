@@ -27,8 +27,8 @@ type Summary struct {
 func (s *Store) Summary(ctx context.Context) (Summary, error) {
 	var sum Summary
 	err := s.read(ctx, func(t *txn) error {
-		if err := t.queryRow(`SELECT (SELECT COUNT(*) FROM melt), (SELECT COUNT(*) FROM sample)`).
-			Scan(&sum.Melts, &sum.Samples); err != nil {
+		if err := t.queryRow(`SELECT (SELECT COUNT(*) FROM melt), (SELECT COUNT(*) FROM sample), (SELECT COUNT(*) FROM scan)`).
+			Scan(&sum.Melts, &sum.Samples, &sum.Scans); err != nil {
 			return err
 		}
 		rows, err := t.query(`SELECT `+historyColumns+` FROM history h LEFT JOIN melt m ON m.id = h.melt_id
