@@ -51,6 +51,9 @@ type nullDist struct {
 	mu     sync.Mutex
 	scores []float64
 	sorted map[int][]float64 // size -> scores sorted descending
+	// unverified marks scores loaded from a calibration snapshot that have
+	// not yet been checked (see LoadCalibration).
+	unverified bool
 }
 
 var nullCache sync.Map // nullKey -> *nullDist
@@ -95,11 +98,14 @@ func nullScores(m *model, key nullKey, cfg searchConfig, size int) []float64 {
 	d := v.(*nullDist)
 	d.mu.Lock()
 	defer d.mu.Unlock()
+	d.verify(m, key, cfg)
 	if s, ok := d.sorted[size]; ok {
 		return s
 	}
 	start := len(d.scores)
-	d.scores = append(d.scores, make([]float64, size-start)...)
+	if start < size {
+		d.scores = append(d.scores, make([]float64, size-start)...)
+	}
 	workers := runtime.GOMAXPROCS(0)
 	var wg sync.WaitGroup
 	for w := 0; w < workers; w++ {

@@ -102,3 +102,39 @@ func (t *txn) nominalByMeltID(id int64) ([]meltbook.ElementFraction, error) {
 	}
 	return out, rows.Err()
 }
+
+// SampleEvidence is what the notebook holds about a sample that bears on
+// which phases it has, apart from its scans: its melt's nominal
+// composition and the symmetries electron diffraction saw on it.
+type SampleEvidence struct {
+	Sample   meltbook.Sample
+	MeltCode string
+	Nominal  []meltbook.ElementFraction
+	Symmetry []meltbook.SymmetryObservation
+}
+
+// SampleEvidence returns the evidence on a sample other than its scans.
+func (s *Store) SampleEvidence(ctx context.Context, sampleCode string) (*SampleEvidence, error) {
+	var out *SampleEvidence
+	err := s.read(ctx, func(t *txn) error {
+		sa, err := t.sampleByCode(sampleCode)
+		if err != nil {
+			return err
+		}
+		m, err := t.meltByID(sa.MeltID)
+		if err != nil {
+			return err
+		}
+		rows, err := t.query(`SELECT `+observationColumns+` FROM symmetry_observation WHERE sample_id = ? ORDER BY id`, sa.ID)
+		if err != nil {
+			return fmt.Errorf("sample %s observations: %w", sa.Code, err)
+		}
+		obs, err := t.scanObservations(rows)
+		if err != nil {
+			return fmt.Errorf("sample %s observations: %w", sa.Code, err)
+		}
+		out = &SampleEvidence{Sample: *sa, MeltCode: m.Code, Nominal: m.Nominal, Symmetry: obs}
+		return nil
+	})
+	return out, err
+}
