@@ -64,13 +64,39 @@ type Result struct {
 	// Duplicate is set when the sample already held the same file (by
 	// SHA-256): nothing was written.
 	Duplicate *meltbook.ScanSummary
-	// Verdicts are the weighings of the new indexing's phases (and of a
-	// halo), in the order of the indexing's phases; Proposed says which
-	// became proposals.
-	Verdicts []verdict.Verdict
-	Proposed []bool
+	// Weighed are the weighings of the new indexing's phases, in the
+	// indexing's order, then of a diffuse halo if one was weighed.
+	Weighed []Weighing
 	// Notes say what was assumed and what could not be done.
 	Notes []string
+}
+
+// Weighing is one candidate outcome with its weighing and, when it was
+// proposed, the stored proposal.
+type Weighing struct {
+	Verdict verdict.Verdict
+	// Proposal is nil for a candidate only noted (a halo where no metallic
+	// glass scatters) and for a duplicate.
+	Proposal *meltbook.ScanProposal
+}
+
+// attach fills each proposed weighing with its stored proposal: the
+// proposals of the current indexing, in the order they were made.
+func (r *Result) attach(proposed []bool) {
+	x := r.Record.Current()
+	var stored []meltbook.ScanProposal
+	for _, p := range r.Record.Proposals {
+		if p.IndexingVersion == x.Version {
+			stored = append(stored, p)
+		}
+	}
+	for i := range r.Weighed {
+		if proposed[i] && len(stored) > 0 {
+			p := stored[0]
+			r.Weighed[i].Proposal = &p
+			stored = stored[1:]
+		}
+	}
 }
 
 // Add reads one scan file, analyses it and stores it on its sample with its
@@ -126,7 +152,7 @@ func Add(ctx context.Context, st *store.Store, who string, f File, opt Options) 
 	if err != nil {
 		return nil, err
 	}
-	props, err := propose(ctx, st, ev, &sc, an, opt.NeighbourDistance, res)
+	props, proposed, err := propose(ctx, st, ev, &sc, an, opt.NeighbourDistance, res)
 	if err != nil {
 		return nil, err
 	}
@@ -136,6 +162,7 @@ func Add(ctx context.Context, st *store.Store, who string, f File, opt Options) 
 		return nil, err
 	}
 	res.Record = rec
+	res.attach(proposed)
 	res.Notes = append(res.Notes, an.indexing.Notes...)
 	return res, nil
 }
@@ -186,7 +213,7 @@ func Reindex(ctx context.Context, st *store.Store, who string, scanID int64, rea
 	if err != nil {
 		return nil, err
 	}
-	props, err := propose(ctx, st, ev, &sc, an, opt.NeighbourDistance, res)
+	props, proposed, err := propose(ctx, st, ev, &sc, an, opt.NeighbourDistance, res)
 	if err != nil {
 		return nil, err
 	}
@@ -197,6 +224,7 @@ func Reindex(ctx context.Context, st *store.Store, who string, scanID int64, rea
 		return nil, err
 	}
 	res.Record = rec
+	res.attach(proposed)
 	res.Notes = append(res.Notes, an.indexing.Notes...)
 	return res, nil
 }

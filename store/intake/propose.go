@@ -17,8 +17,9 @@ import (
 const eaScheme = element.RaynorScheme
 
 // propose weighs each phase of the analysis (or its halo) and returns the
-// proposals to store, filling res.Verdicts, res.Proposed and notes.
-func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc *meltbook.Scan, an *analysis, within float64, res *Result) ([]store.Proposal, error) {
+// proposals to store and, per weighing added to res.Weighed, whether it
+// was proposed; it adds notes to res.
+func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc *meltbook.Scan, an *analysis, within float64, res *Result) ([]store.Proposal, []bool, error) {
 	if within <= 0 {
 		within = DefaultNeighbourDistance
 	}
@@ -32,7 +33,7 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 		} else {
 			res.Notes = append(res.Notes, "no peaks and no diffuse halo: nothing proposed")
 		}
-		return nil, nil
+		return nil, nil, nil
 	}
 	base := verdict.Input{NeighbourDistance: within}
 	for _, o := range ev.Symmetry {
@@ -40,12 +41,12 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 	}
 	comp, err := toComposition(ev.Nominal)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	base.EOverA = eOverA(comp)
 	near, err := st.SamplesNear(ctx, ev.Nominal, within, ev.MeltCode)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	for _, n := range near {
 		nc, err := toComposition(n.Nominal)
@@ -63,6 +64,7 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 		base.Neighbours = append(base.Neighbours, nb)
 	}
 	var props []store.Proposal
+	var proposed []bool
 	specimen := x.SpecimenPeaks()
 	for i, ph := range x.Phases {
 		in := base
@@ -72,8 +74,8 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 			IndexedPeaks: len(ph.Assignments), SpecimenPeaks: specimen, ExplainedIntensity: ph.ExplainedIntensity,
 		}
 		v := verdict.Weigh(in)
-		res.Verdicts = append(res.Verdicts, v)
-		res.Proposed = append(res.Proposed, true)
+		res.Weighed = append(res.Weighed, Weighing{Verdict: v})
+		proposed = append(proposed, true)
 		o := v.Outcome
 		o.Evidence = fmt.Sprintf("From %s: %s. %s", sc.FileName, ph.Title(), v.Text())
 		props = append(props, store.Proposal{Outcome: o, Phase: i, Confidence: v.Confidence})
@@ -82,10 +84,10 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 		in := base
 		in.Halo = &verdict.Halo{CentreDeg: h.CentreDeg, FWHMDeg: h.FWHMDeg, QPerA: h.QPerA}
 		v := verdict.Weigh(in)
-		res.Verdicts = append(res.Verdicts, v)
+		res.Weighed = append(res.Weighed, Weighing{Verdict: v})
 		// A halo outside the metallic-glass range is only noted.
 		ok := verdict.InMetallicGlassRange(h.QPerA)
-		res.Proposed = append(res.Proposed, ok)
+		proposed = append(proposed, ok)
 		if ok {
 			o := v.Outcome
 			o.Evidence = fmt.Sprintf("From %s: %s", sc.FileName, v.Text())
@@ -94,7 +96,7 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 			res.Notes = append(res.Notes, fmt.Sprintf("a diffuse hump at 2θ = %.1f° (Q = %.2f Å⁻¹) lies where an amorphous holder or oxide scatters, not a metallic glass: nothing proposed", h.CentreDeg, h.QPerA))
 		}
 	}
-	return props, nil
+	return props, proposed, nil
 }
 
 // toComposition normalises a stored composition.
