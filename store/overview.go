@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"sort"
+	"sync"
 
 	"meltbook"
 )
@@ -93,9 +94,18 @@ type MapSample struct {
 //   - Annealed: an anneal step comes after the last melt-spin step (or there
 //     is an anneal and no spinning at all).
 //
-// It reads each table once, so the cost grows with the size of the
-// notebook and not with the number of queries.
+// Reading them costs a pass over eight tables; while the notebook file is
+// unchanged (by this program or any other: SQLite's data version says so)
+// repeated calls return the rows read before. Callers must not change the
+// returned slice or anything it refers to.
 func (s *Store) MapSamples(ctx context.Context) ([]MapSample, error) {
+	c := &s.overview
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	version, versionErr := c.dataVersion(ctx, s.db)
+	if versionErr == nil && c.valid && version == c.version {
+		return c.samples, nil
+	}
 	var out []MapSample
 	err := s.read(ctx, func(t *txn) error {
 		var err error
@@ -105,7 +115,46 @@ func (s *Store) MapSamples(ctx context.Context) ([]MapSample, error) {
 	if err != nil {
 		return nil, fmt.Errorf("map samples: %w", err)
 	}
+	c.samples, c.version, c.valid = out, version, versionErr == nil
 	return out, nil
+}
+
+// overviewCache keeps the last MapSamples result with the data version of
+// the file when it was read. The version comes from a connection of its
+// own that never writes: SQLite changes the data_version it reports
+// whenever another connection, of this process or another, commits.
+type overviewCache struct {
+	mu      sync.Mutex
+	watch   *sql.Conn
+	version int64
+	valid   bool
+	samples []MapSample
+}
+
+func (c *overviewCache) dataVersion(ctx context.Context, db *sql.DB) (int64, error) {
+	if c.watch == nil {
+		conn, err := db.Conn(ctx)
+		if err != nil {
+			return 0, err
+		}
+		c.watch = conn
+	}
+	var v int64
+	err := c.watch.QueryRowContext(ctx, "PRAGMA data_version").Scan(&v)
+	return v, err
+}
+
+// close releases the watching connection.
+func (c *overviewCache) close() error {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	c.valid, c.samples = false, nil
+	if c.watch == nil {
+		return nil
+	}
+	err := c.watch.Close()
+	c.watch = nil
+	return err
 }
 
 // sampleHistory is what mapSamples gathers about one sample before the
@@ -144,33 +193,19 @@ type positioned struct {
 // mapSamples reads each table once, in the order it is stored, and puts
 // the rows in order in Go: sorting in SQL would cost temporary B-trees.
 func (t *txn) mapSamples() ([]MapSample, error) {
-	meltCodes := map[int64]string{}
-	err := t.each(`SELECT id, code FROM melt`, func(rows *sql.Rows) error {
-		var id int64
-		var code string
-		if err := rows.Scan(&id, &code); err != nil {
-			return err
-		}
-		meltCodes[id] = code
-		return nil
-	})
-	if err != nil {
-		return nil, fmt.Errorf("melts: %w", err)
-	}
-
 	var out []MapSample
 	byID := map[int64]*sampleHistory{}
 	var order []int64
-	err = t.each(`SELECT id, parent_id, melt_id, code FROM sample ORDER BY id`, func(rows *sql.Rows) error {
+	err := t.each(`SELECT sa.id, sa.parent_id, sa.melt_id, sa.code, m.code FROM sample sa JOIN melt m ON m.id = sa.melt_id ORDER BY sa.id`, func(rows *sql.Rows) error {
 		var id, meltID int64
 		var parent sql.NullInt64
-		var code string
-		if err := rows.Scan(&id, &parent, &meltID, &code); err != nil {
+		var ms MapSample
+		if err := rows.Scan(&id, &parent, &meltID, &ms.Code, &ms.Melt); err != nil {
 			return err
 		}
 		byID[id] = &sampleHistory{parent: parent.Int64, meltID: meltID, index: len(out)}
 		order = append(order, id)
-		out = append(out, MapSample{Code: code, Melt: meltCodes[meltID]})
+		out = append(out, ms)
 		return nil
 	})
 	if err != nil {
@@ -221,7 +256,8 @@ func (t *txn) mapSamples() ([]MapSample, error) {
 	if err != nil {
 		return nil, fmt.Errorf("cooling rates: %w", err)
 	}
-	err = t.each(`SELECT id, sample_id, seq, kind FROM process_step`, func(rows *sql.Rows) error {
+	// Only spinning and annealing matter here.
+	err = t.each(`SELECT id, sample_id, seq, kind FROM process_step WHERE kind IN ('melt-spin', 'anneal')`, func(rows *sql.Rows) error {
 		var st mapStep
 		var sampleID int64
 		var kind string

@@ -52,6 +52,8 @@ type Store struct {
 	valences map[string]map[string]float64
 	// knownVersion is the newest schema version this build knows.
 	knownVersion int
+	// overview caches MapSamples (overview.go).
+	overview overviewCache
 }
 
 // Open opens the notebook at path and brings its schema up to date. It
@@ -202,6 +204,7 @@ func (s *Store) create(ctx context.Context, ms []migration) error {
 // Close refreshes the query planner's statistics where needed and closes
 // the file.
 func (s *Store) Close() error {
+	s.overview.close()
 	errStats := s.refreshStatistics()
 	if err := s.db.Close(); err != nil {
 		return err

@@ -12,7 +12,7 @@ import (
 
 // The JSON API mirrors the pages:
 //
-//	GET /api/summary        Summary
+//	GET /api/summary        store.Summary
 //	GET /api/filters        []query.Field, the find vocabulary
 //	GET /api/runs?…         {"total": n, "rows": []query.Row}: one page of the run table (filters, sort, desc, page)
 //	GET /api/find?…         []query.Row: every match (up to MaxExportRows), as the find command prints it
@@ -88,12 +88,12 @@ func (s *Server) apiScan(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	sv, err := s.nb.Scan(r.Context(), id)
+	rec, err := s.nb.ScanRecord(r.Context(), id)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	writeJSON(w, sv)
+	writeJSON(w, scanView(rec))
 }
 
 func (s *Server) apiMap(w http.ResponseWriter, r *http.Request) {

@@ -14,7 +14,7 @@ import (
 
 	"meltbook"
 	"meltbook/analysis/element"
-	"meltbook/web"
+	"meltbook/store"
 	"meltbook/web/plot"
 )
 
@@ -196,13 +196,13 @@ func (f *fakeNotebook) own(melt string) (fakeSample, bool) {
 	return fakeSample{}, false
 }
 
-func (f *fakeNotebook) Summary(ctx context.Context) (web.Summary, error) {
+func (f *fakeNotebook) Summary(ctx context.Context) (store.Summary, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.fault != nil {
-		return web.Summary{}, f.fault
+		return store.Summary{}, f.fault
 	}
-	sum := web.Summary{Melts: len(f.melts()), Samples: len(f.samples), Scans: len(f.melts())}
+	sum := store.Summary{Melts: len(f.melts()), Samples: len(f.samples), Scans: len(f.melts())}
 	for i := len(f.samples) - 1; i >= 0 && len(sum.Recent) < 6; i-- {
 		s := f.samples[i]
 		sum.Recent = append(sum.Recent, meltbook.HistoryEntry{At: s.created, Who: "T. Ingram", MeltCode: s.melt, Entity: "sample", Action: "create"})
@@ -313,15 +313,15 @@ func (f *fakeNotebook) FindMelts(ctx context.Context, q meltbook.MeltFilter) ([]
 	return rows, total, nil
 }
 
-func (f *fakeNotebook) MapSamples(ctx context.Context) ([]web.MapSample, error) {
+func (f *fakeNotebook) MapSamples(ctx context.Context) ([]store.MapSample, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.fault != nil {
 		return nil, f.fault
 	}
-	out := make([]web.MapSample, len(f.samples))
+	out := make([]store.MapSample, len(f.samples))
 	for i, s := range f.samples {
-		out[i] = web.MapSample{Code: s.code, Melt: s.melt, Composition: s.composition, Outcomes: s.outcomes, CoolingRateKPerS: s.rate, Annealed: s.annealed}
+		out[i] = store.MapSample{Code: s.code, Melt: s.melt, Composition: s.composition, Outcomes: s.outcomes, CoolingRateKPerS: s.rate, Annealed: s.annealed}
 	}
 	return out, nil
 }
@@ -388,47 +388,59 @@ func (f *fakeNotebook) meltNumber(code string) int64 {
 	return 0
 }
 
-func (f *fakeNotebook) Scans(ctx context.Context, melt string) ([]web.ScanSummary, error) {
+func (f *fakeNotebook) MeltScans(ctx context.Context, melt string) ([]meltbook.ScanSummary, error) {
 	f.mu.Lock()
-	defer f.mu.Unlock()
-	return []web.ScanSummary{{ID: f.meltNumber(melt), Sample: melt, Name: melt + "-xrd.xy", Radiation: "Cu Kα", FromDeg: 20, ToDeg: 80, Points: 3001}}, nil
+	id := f.meltNumber(melt)
+	f.mu.Unlock()
+	rec, err := f.ScanRecord(ctx, id)
+	if err != nil {
+		return nil, err
+	}
+	sc := rec.Scan
+	return []meltbook.ScanSummary{{ID: sc.ID, SampleCode: sc.SampleCode, MeltCode: sc.MeltCode, FileName: sc.FileName, SHA256: sc.SHA256,
+		Format: sc.Format, Radiation: sc.Radiation, Points: sc.Points(), FromDeg: 20, ToDeg: 80, ImportedAt: sc.ImportedAt,
+		ImportedBy: sc.ImportedBy, IndexingVersion: 1, Indexing: "icosahedral F (invented), 6 of 7 peaks"}}, nil
 }
 
-func (f *fakeNotebook) Scan(ctx context.Context, id int64) (web.ScanView, error) {
+// ScanRecord gives every melt one invented scan, numbered as the melts:
+// seven peaks on a sloping background, six of them labelled by an invented
+// icosahedral phase and one (64.6°) unexplained.
+func (f *fakeNotebook) ScanRecord(ctx context.Context, id int64) (*meltbook.ScanRecord, error) {
 	f.mu.Lock()
 	melts := f.melts()
 	f.mu.Unlock()
 	if id < 1 || id > int64(len(melts)) {
-		return web.ScanView{}, meltbook.Errorf(meltbook.NotFound, "scan", "no scan %d", id)
+		return nil, meltbook.Errorf(meltbook.NotFound, "scan", "no scan %d", id)
 	}
 	melt := melts[id-1]
-	var p plot.Pattern
-	// Invented peaks on a sloping background; the labels are invented too.
 	peaks := []struct {
 		t, h, w float64
 		label   string
 	}{{24.1, 180, 0.12, "(6,9)"}, {26.0, 120, 0.12, "(7,11)"}, {42.9, 1000, 0.1, "(18,29)"}, {45.0, 620, 0.1, "(20,32)"}, {62.4, 260, 0.14, "(38,61)"}, {64.6, 90, 0.14, ""}, {73.6, 150, 0.16, "(52,84)"}}
+	sc := meltbook.Scan{ID: id, SampleCode: melt, MeltCode: melt, FileName: melt + "-xrd.xy", SHA256: strings.Repeat("5e", 32), Format: "XY",
+		Radiation:  meltbook.ScanRadiation{Anode: "Cu", Kalpha1Angstrom: 1.5405929, Kalpha2Angstrom: 1.5444274, Kalpha2Ratio: 0.5, Kalpha2: meltbook.Kalpha2Doublet, Text: "Cu"},
+		ImportedAt: epoch, ImportedBy: "T. Ingram"}
 	for i := 0; i <= 3000; i++ {
 		t := 20 + 0.02*float64(i)
-		bg := 140 - 0.9*(t-20) + 30*math.Exp(-(t-20)/6)
-		y := bg
+		y := 140 - 0.9*(t-20) + 30*math.Exp(-(t-20)/6)
 		for _, pk := range peaks {
 			y += pk.h * math.Exp(-math.Pow((t-pk.t)/pk.w, 2))
 		}
-		noise := 6 * math.Sin(float64(i)*12.9898)
-		p.TwoThetaDeg = append(p.TwoThetaDeg, t)
-		p.Counts = append(p.Counts, y+noise)
-		p.Background = append(p.Background, bg)
-		p.Fit = append(p.Fit, y)
+		sc.TwoThetaDeg = append(sc.TwoThetaDeg, t)
+		sc.Counts = append(sc.Counts, y+6*math.Sin(float64(i)*12.9898))
 	}
-	for _, pk := range peaks {
-		p.Peaks = append(p.Peaks, plot.PeakMark{TwoThetaDeg: pk.t, Label: pk.label, Explained: pk.label != ""})
+	x := meltbook.Indexing{ID: id, ScanID: id, Version: 1, At: epoch, By: "invented indexer", RequestedBy: "T. Ingram", Radiation: sc.Radiation}
+	phase := meltbook.IndexedPhase{Kind: meltbook.ModelIcosahedral, Lattice: "F", ConstantA: 4.4621, ConstantSUA: 0.0008, Chance: 2e-6}
+	for i, pk := range peaks {
+		x.Peaks = append(x.Peaks, meltbook.Peak{TwoThetaDeg: pk.t, Height: pk.h, FWHMDeg: 2 * math.Sqrt(math.Ln2) * pk.w, Found: meltbook.PeakAutomatic})
+		if pk.label == "" {
+			x.Unexplained = append(x.Unexplained, i)
+			continue
+		}
+		phase.Assignments = append(phase.Assignments, meltbook.PeakAssignment{Peak: i, TwoThetaDeg: pk.t, Label: pk.label})
 	}
-	return web.ScanView{
-		ScanSummary: web.ScanSummary{ID: id, Sample: melt, Name: melt + "-xrd.xy", Radiation: "Cu Kα", FromDeg: 20, ToDeg: 80, Points: 3001},
-		Melt:        melt, ImportedAt: epoch, SHA256: strings.Repeat("5e", 32),
-		Indexing: "icosahedral F (invented), 6 of 7 peaks", Pattern: p,
-	}, nil
+	x.Phases = []meltbook.IndexedPhase{phase}
+	return &meltbook.ScanRecord{Scan: sc, Indexings: []meltbook.Indexing{x}}, nil
 }
 
 func (f *fakeNotebook) AddNote(ctx context.Context, who, code, text string) (*meltbook.Note, error) {

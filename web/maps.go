@@ -12,6 +12,7 @@ import (
 
 	"meltbook"
 	"meltbook/analysis/element"
+	"meltbook/store"
 	"meltbook/web/plot"
 )
 
@@ -67,7 +68,7 @@ type sampleFilter struct {
 
 // readControls parses the settings common to both kinds of map; corners
 // are read only when withCorners is set.
-func (s *Server) readControls(q url.Values, samples []MapSample, withCorners bool) (mapControls, sampleFilter) {
+func (s *Server) readControls(q url.Values, samples []store.MapSample, withCorners bool) (mapControls, sampleFilter) {
 	c := mapControls{
 		A: q.Get("a"), B: q.Get("b"), C: q.Get("c"),
 		Scheme: q.Get("scheme"), RateMin: q.Get("rate-min"), RateMax: q.Get("rate-max"),
@@ -179,7 +180,7 @@ func (s *Server) readControls(q url.Values, samples []MapSample, withCorners boo
 
 // commonElements returns the n elements with the largest summed fraction
 // over the samples, most common first.
-func commonElements(samples []MapSample, n int) []string {
+func commonElements(samples []store.MapSample, n int) []string {
 	sum := map[string]float64{}
 	for _, m := range samples {
 		for _, ef := range m.Composition {
@@ -214,7 +215,7 @@ type selectCounts struct {
 }
 
 // keep applies the treatment and cooling-rate filters.
-func (f *sampleFilter) keep(m *MapSample, n *selectCounts) bool {
+func (f *sampleFilter) keep(m *store.MapSample, n *selectCounts) bool {
 	switch {
 	case f.treatment == "as-spun" && m.Annealed, f.treatment == "annealed" && !m.Annealed:
 		n.Treatment++

@@ -14,6 +14,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"meltbook"
+	"meltbook/store"
 	"meltbook/store/query"
 	"meltbook/web/plot"
 )
@@ -22,7 +23,7 @@ import (
 const PageSize = 50
 
 type overviewPage struct {
-	Summary Summary
+	Summary store.Summary
 	Classes []classCount
 	Mapped  int
 }
@@ -280,7 +281,7 @@ func (s *Server) runsCSV(w http.ResponseWriter, r *http.Request) {
 type runPage struct {
 	Run *meltbook.MeltRecord
 	// Scans of the melt's samples, by sample code.
-	Scans map[string][]ScanSummary
+	Scans map[string][]meltbook.ScanSummary
 	// Focus is the sample code the page was opened for, if any.
 	Focus string
 	Note  noteForm
@@ -329,13 +330,13 @@ func (s *Server) loadRun(r *http.Request, code string) (p runPage, err error) {
 	p.Author = s.cfg.Author
 	p.PhaseKinds = meltbook.PhaseKinds
 	p.Lattices = []string{"P", "I", "F"}
-	scans, err := s.nb.Scans(r.Context(), rec.Melt.Code)
+	scans, err := s.nb.MeltScans(r.Context(), rec.Melt.Code)
 	if err != nil {
 		return p, err
 	}
-	p.Scans = map[string][]ScanSummary{}
+	p.Scans = map[string][]meltbook.ScanSummary{}
 	for _, sc := range scans {
-		p.Scans[sc.Sample] = append(p.Scans[sc.Sample], sc)
+		p.Scans[sc.SampleCode] = append(p.Scans[sc.SampleCode], sc)
 	}
 	return p, nil
 }
@@ -522,12 +523,29 @@ func (s *Server) decideProposal(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
+	// A decision taken on a scan's page goes back there.
+	if scan, err := strconv.ParseInt(r.PostForm.Get("scan"), 10, 64); err == nil && scan > 0 {
+		http.Redirect(w, r, "/scans/"+strconv.FormatInt(scan, 10)+"#proposals", http.StatusSeeOther)
+		return
+	}
 	http.Redirect(w, r, "/runs/"+url.PathEscape(p.Run.Melt.Code)+"#s-"+url.PathEscape(sample), http.StatusSeeOther)
 }
 
 type scanPage struct {
 	Scan ScanView
 	SVG  template.HTML
+	// Peaks of the current indexing, for the table under the figure.
+	Peaks []peakRow
+	// Author fills "by" in the proposal decisions.
+	Author string
+}
+
+// peakRow is one peak of the current indexing as the table lists it.
+type peakRow struct {
+	meltbook.Peak
+	// Assigned is the phase letter and reflection, or the standard line;
+	// empty when unexplained.
+	Assigned string
 }
 
 func (s *Server) scan(w http.ResponseWriter, r *http.Request) {
@@ -536,19 +554,27 @@ func (s *Server) scan(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	sv, err := s.nb.Scan(r.Context(), id)
+	rec, err := s.nb.ScanRecord(r.Context(), id)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	pp := plot.PatternPlot{Title: sv.Sample + " · " + sv.Name, Pattern: sv.Pattern}
+	sv := scanView(rec)
+	pp := plot.PatternPlot{Title: sv.Scan.SampleCode + " · " + sv.Scan.FileName, Pattern: sv.Pattern}
 	svg, err := pp.SVG()
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
+	p := scanPage{Scan: sv, SVG: template.HTML(svg), Author: s.cfg.Author}
+	if sv.Current != nil {
+		labels := peakLabels(sv.Current)
+		for i, pk := range sv.Current.Peaks {
+			p.Peaks = append(p.Peaks, peakRow{Peak: pk, Assigned: labels[i]})
+		}
+	}
 	// The SVG is built by plot from numbers and escaped text.
-	s.render(w, r, http.StatusOK, "scan", sv.Sample+" · "+sv.Name, scanPage{Scan: sv, SVG: template.HTML(svg)})
+	s.render(w, r, http.StatusOK, "scan", sv.Scan.SampleCode+" · "+sv.Scan.FileName, p)
 }
 
 func scanID(r *http.Request) (int64, error) {

@@ -99,7 +99,11 @@ func loadPages() (*pages, error) {
 			}
 			return ""
 		},
-		"blankOutcome": func() outcomeForm { return outcomeForm{} },
+		"blankOutcome":  func() outcomeForm { return outcomeForm{} },
+		"deg":           func(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) },
+		"chance":        chanceText,
+		"phaseLetter":   phaseLetter,
+		"radiationText": radiationText,
 		"cornerField": func(name, label, value string, errs map[string]string) cornerInput {
 			return cornerInput{Name: name, Label: label, Value: value, Error: errs[name]}
 		},

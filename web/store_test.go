@@ -5,6 +5,5 @@ import (
 	"meltbook/web"
 )
 
-// The store already has the methods of web.StoreMethods, with the same
-// signatures; the rest of web.Notebook is for an adapter.
-var _ web.StoreMethods = (*store.Store)(nil)
+// The server serves a store as it is.
+var _ web.Notebook = (*store.Store)(nil)

@@ -27,13 +27,16 @@ type Options struct {
 	// MeasuredShare is the share of samples (0..1) with a composition
 	// measured by EDS, a little off the nominal one.
 	MeasuredShare float64
+	// Systems are the alloy systems to draw from, major element first;
+	// nil means DefaultSystems.
+	Systems [][]string
 	// Store configures the new notebook (clock and valence tables).
 	Store store.Options
 }
 
-// Systems are the invented alloy systems, first element the major one; an
-// entry listed twice is drawn twice as often.
-var Systems = [][]string{
+// DefaultSystems are the invented alloy systems, first element the major
+// one; an entry listed twice is drawn twice as often.
+var DefaultSystems = [][]string{
 	{"Al", "Cu", "Fe"}, {"Al", "Cu", "Fe"}, {"Al", "Cu", "Fe", "Si"},
 	{"Al", "Pd", "Mn"}, {"Al", "Ni", "Co"}, {"Al", "Mn", "Si"}, {"Al", "Cu", "Cr"}, {"Zn", "Mg", "Al"},
 }
@@ -62,8 +65,12 @@ func Document(opt Options) *store.Document {
 	var ids struct{ sample, step, measurement, outcome int64 }
 	t0 := time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC)
 	kinds := meltbook.PhaseKinds
+	systems := opt.Systems
+	if systems == nil {
+		systems = DefaultSystems
+	}
 	for i := range opt.Melts {
-		sys := Systems[rng.IntN(len(Systems))]
+		sys := systems[rng.IntN(len(systems))]
 		rest := 1 - (0.5 + 0.25*rng.Float64())
 		parts := []meltbook.ElementFraction{{Element: sys[0], Fraction: math.Round((1-rest)*1000) / 1000}}
 		left := math.Round(rest*1000) / 1000
