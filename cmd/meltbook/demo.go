@@ -37,6 +37,8 @@ const demoSuggestions = 3
 type demoFlags struct {
 	seed    uint64
 	replace bool
+	noServe bool
+	serve   serveFlags
 }
 
 func newDemoCommand(a *app) *cobra.Command {
@@ -47,7 +49,9 @@ func newDemoCommand(a *app) *cobra.Command {
 		Long: `Builds the demonstration notebook: an invented lab's ten months of
 melt-spinning runs in five alloy systems, the same for the same --seed.
 It prints a summary of the runs and outcomes per system, then what to
-melt next in each system, ranked from the notebook's own results.
+melt next in each system, ranked from the notebook's own results, and then
+serves the notebook's web pages (as 'meltbook serve' does) until Ctrl-C,
+unless --no-serve is given.
 
 Without --notebook the demo lives in the user's cache folder
 (meltbook/` + demoFileName + ` under $XDG_CACHE_HOME or ~/.cache) and is
@@ -64,11 +68,17 @@ is never touched. With --notebook an existing file is kept unless
 			if err := writeDemoSummary(cmd.Context(), a.stdout, d); err != nil {
 				return err
 			}
-			return writeDemoNext(a.stdout, d)
+			if err := writeDemoNext(a.stdout, d); err != nil || fl.noServe {
+				return err
+			}
+			fmt.Fprintln(a.stdout)
+			return a.serve(cmd.Context(), d.store, fl.serve)
 		},
 	}
 	cmd.Flags().Uint64Var(&fl.seed, "seed", demoDefaultSeed, "seed of the invented notebook; the same seed gives the same notebook")
 	cmd.Flags().BoolVar(&fl.replace, "replace", false, "replace an existing file named by --notebook")
+	cmd.Flags().BoolVar(&fl.noServe, "no-serve", false, "build and summarise the notebook, then stop instead of serving its web pages")
+	fl.serve.register(cmd)
 	return cmd
 }
 

@@ -54,7 +54,7 @@ func demoExport(t *testing.T, path string) []byte {
 func TestDemoSummaryAndSuggestions(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "demo.db")
-	out, errOut, code := runDemoCLI(t, "--notebook", path, "demo")
+	out, errOut, code := runDemoCLI(t, "--notebook", path, "demo", "--no-serve")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
@@ -99,15 +99,15 @@ func TestDemoSummaryAndSuggestions(t *testing.T) {
 func TestDemoIsDeterministic(t *testing.T) {
 	dir := t.TempDir()
 	a, b, c := filepath.Join(dir, "a.db"), filepath.Join(dir, "b.db"), filepath.Join(dir, "c.db")
-	outA, errOut, code := runDemoCLI(t, "--notebook", a, "demo", "--seed", "7")
+	outA, errOut, code := runDemoCLI(t, "--notebook", a, "demo", "--no-serve", "--seed", "7")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
-	outB, errOut, code := runDemoCLI(t, "--notebook", b, "demo", "--seed", "7")
+	outB, errOut, code := runDemoCLI(t, "--notebook", b, "demo", "--no-serve", "--seed", "7")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
-	if _, errOut, code := runDemoCLI(t, "--notebook", c, "demo", "--seed", "8"); code != 0 {
+	if _, errOut, code := runDemoCLI(t, "--notebook", c, "demo", "--no-serve", "--seed", "8"); code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
 	if !bytes.Equal(demoExport(t, a), demoExport(t, b)) {
@@ -126,14 +126,14 @@ func TestDemoKeepsANamedFile(t *testing.T) {
 	if err := os.WriteFile(path, []byte("precious"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	_, errOut, code := runDemoCLI(t, "--notebook", path, "demo")
+	_, errOut, code := runDemoCLI(t, "--notebook", path, "demo", "--no-serve")
 	if code != exitConflict || !strings.Contains(errOut, "--replace") {
 		t.Errorf("exit %d, stderr %q; want a refusal naming --replace", code, errOut)
 	}
 	if got, _ := os.ReadFile(path); string(got) != "precious" {
 		t.Error("the demo overwrote a file it was not asked to replace")
 	}
-	if _, errOut, code := runDemoCLI(t, "--notebook", path, "demo", "--replace"); code != 0 {
+	if _, errOut, code := runDemoCLI(t, "--notebook", path, "demo", "--no-serve", "--replace"); code != 0 {
 		t.Fatalf("--replace: exit %d: %s", code, errOut)
 	}
 	if len(demoExport(t, path)) == 0 {
@@ -141,9 +141,9 @@ func TestDemoKeepsANamedFile(t *testing.T) {
 	}
 }
 
-// TestDemoRunsAgainAndAgain runs the README's one command twice: the
-// default demo file is rebuilt each time, and $MELTBOOK_NOTEBOOK is not
-// touched.
+// TestDemoRunsAgainAndAgain runs the README's one command twice (without
+// serving, which TestDemoServes tries): the default demo file is rebuilt
+// each time, and $MELTBOOK_NOTEBOOK is not touched.
 func TestDemoRunsAgainAndAgain(t *testing.T) {
 	cache := t.TempDir()
 	t.Setenv("XDG_CACHE_HOME", cache)
@@ -152,7 +152,7 @@ func TestDemoRunsAgainAndAgain(t *testing.T) {
 	t.Setenv(notebookEnv, own)
 	var first []byte
 	for i := 0; i < 2; i++ {
-		out, errOut, code := runDemoCLI(t, "demo")
+		out, errOut, code := runDemoCLI(t, "demo", "--no-serve")
 		if code != 0 {
 			t.Fatalf("run %d: exit %d: %s", i+1, code, errOut)
 		}
