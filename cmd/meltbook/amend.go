@@ -13,6 +13,7 @@ import (
 	"meltbook/analysis/composition"
 	"meltbook/analysis/quantity"
 	"meltbook/store"
+	"meltbook/store/runform"
 )
 
 func init() {
@@ -186,7 +187,7 @@ func (a *app) amendCode(ctx context.Context, st *store.Store, code string, field
 			if f.name != "made" {
 				return nil, unknownAmendField("sample", f)
 			}
-			t, err := parseWhen(runValue{f.name, f.value, f.name}, time.Local)
+			t, err := runform.ParseWhen(runform.Value{Key: f.name, Value: f.value, Where: f.name}, time.Local)
 			if err != nil {
 				return nil, err
 			}
@@ -228,7 +229,7 @@ func meltUpdate(m *meltbook.Melt, fields []amendField) (meltbook.MeltUpdate, err
 		return nil, "", invalidFlag(f.name, el+" is not in the melt's weigh-out")
 	}
 	for _, f := range fields {
-		v := runValue{f.name, f.value, f.name}
+		v := runform.Value{Key: f.name, Value: f.value, Where: f.name}
 		switch f.name {
 		case "operator":
 			if f.value == "" {
@@ -237,13 +238,13 @@ func meltUpdate(m *meltbook.Melt, fields []amendField) (meltbook.MeltUpdate, err
 			op := f.value
 			u.Operator = &op
 		case "made":
-			t, err := parseWhen(v, time.Local)
+			t, err := runform.ParseWhen(v, time.Local)
 			if err != nil {
 				return u, err
 			}
 			u.CreatedAt = &t
 		case "composition":
-			p, err := parseCompositionAt(v)
+			p, err := runform.ParseComposition(v)
 			if err != nil {
 				return u, err
 			}
@@ -251,11 +252,11 @@ func meltUpdate(m *meltbook.Melt, fields []amendField) (meltbook.MeltUpdate, err
 			u.CompositionEntered = &entered
 			u.Nominal = fractionsOf(p.Atomic)
 		case "mass", "mass-after":
-			q, err := parsePositive(v, quantity.Mass)
+			q, err := runform.ParsePositive(v, quantity.Mass)
 			if err != nil {
 				return u, err
 			}
-			g := tidy(q.SI * 1000)
+			g := runform.Tidy(q.SI * 1000)
 			if f.name == "mass" {
 				u.TargetMassGrams = &g
 			} else {
@@ -269,18 +270,18 @@ func meltUpdate(m *meltbook.Melt, fields []amendField) (meltbook.MeltUpdate, err
 			if err != nil {
 				return u, err
 			}
-			q, err := parsePositive(runValue{f.name, amount, f.name}, quantity.Mass)
+			q, err := runform.ParsePositive(runform.Value{Key: f.name, Value: amount, Where: f.name}, quantity.Mass)
 			if err != nil {
 				return u, err
 			}
-			g := tidy(q.SI * 1000)
+			g := runform.Tidy(q.SI * 1000)
 			l.WeighedGrams, weighOutChanged = &g, true
 		case "purity":
 			l, amount, err := line(f)
 			if err != nil {
 				return u, err
 			}
-			x, err := percentAmount(v, amount)
+			x, err := runform.PercentAmount(v, amount)
 			if err != nil {
 				return u, err
 			}
@@ -352,21 +353,21 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 		return nil, meltbook.Errorf(meltbook.NotFound, "TARGET", "sample %s has no step %d", sample.Code, n)
 	}
 	u := meltbook.StepUpdate{}
-	var diameter runValue
+	var diameter runform.Value
 	speedGiven := false
 	for _, f := range fields {
 		speedGiven = speedGiven || f.name == "wheel-speed"
 		if f.name == "wheel-diameter" {
-			diameter = runValue{f.name, f.value, f.name}
+			diameter = runform.Value{Key: f.name, Value: f.value, Where: f.name}
 		}
 	}
-	if diameter.value != "" && !speedGiven {
+	if diameter.Value != "" && !speedGiven {
 		return nil, invalidFlag("wheel-diameter", "only turns a wheel-speed given in rpm into a surface speed; give wheel-speed too")
 	}
-	var extra []runValue
+	var extra []runform.Value
 	recompute := false
 	for _, f := range fields {
-		v := runValue{f.name, f.value, f.name}
+		v := runform.Value{Key: f.name, Value: f.value, Where: f.name}
 		switch f.name {
 		case "notes":
 			notes := f.value
@@ -377,7 +378,7 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 			u.Operator = &op
 			continue
 		case "at":
-			t, err := parseWhen(v, time.Local)
+			t, err := runform.ParseWhen(v, time.Local)
 			if err != nil {
 				return nil, err
 			}
@@ -386,7 +387,7 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 		case "wheel-diameter":
 			continue
 		}
-		if step.Kind == meltbook.MeltSpin && hasString(coolingInputKeys, f.name) {
+		if step.Kind == meltbook.MeltSpin && hasString(runform.CoolingInputKeys, f.name) {
 			extra, recompute = append(extra, v), true
 			continue
 		}
@@ -404,7 +405,7 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 		var p meltbook.Param
 		if f.name == "wheel-speed" {
 			var remark string
-			p, remark, err = parseWheelSpeed(v, diameter)
+			p, remark, err = runform.ParseWheelSpeed(v, diameter)
 			if err == nil && remark != "" {
 				notes := strings.TrimPrefix(step.Notes+"; "+remark, "; ")
 				if u.Notes != nil {
@@ -413,7 +414,7 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 				u.Notes = &notes
 			}
 		} else {
-			p, err = parseParam(spec, v)
+			p, err = runform.ParseParam(spec, v)
 		}
 		if err != nil {
 			return nil, err
@@ -451,7 +452,7 @@ func paramNames(kind meltbook.StepKind) string {
 // will be after the update, and adds the change to the update. Inputs of
 // the estimate given when the step was logged are kept unless extra gives
 // them anew.
-func recomputeCooling(rec *meltbook.MeltRecord, step *meltbook.ProcessStep, u *meltbook.StepUpdate, extra []runValue) error {
+func recomputeCooling(rec *meltbook.MeltRecord, step *meltbook.ProcessStep, u *meltbook.StepUpdate, extra []runform.Value) error {
 	after := meltbook.ProcessStep{Kind: step.Kind}
 	for _, p := range step.Params {
 		if !hasString(u.Unset, p.Name) && p.Name != "cooling-rate" && p.Name != "cooling-regime" {
@@ -475,17 +476,17 @@ func recomputeCooling(rec *meltbook.MeltRecord, step *meltbook.ProcessStep, u *m
 	}
 	_, thick := after.Param("thickness")
 	if regime, ok := step.Param("cooling-regime"); ok && thick {
-		for _, v := range givenCoolingInputs(regime.Text) {
+		for _, v := range runform.GivenCoolingInputs(regime.Text) {
 			again := false
 			for _, e := range extra {
-				again = again || e.key == v.key
+				again = again || e.Key == v.Key
 			}
 			if !again {
 				extra = append(extra, v)
 			}
 		}
 	}
-	_, params, err := estimateCooling(c, &after, extra, "thickness")
+	_, params, err := runform.EstimateCooling(c, &after, extra, "thickness")
 	if err != nil {
 		return err
 	}
@@ -553,7 +554,7 @@ func measurementUpdate(fields []amendField) (meltbook.MeasurementUpdate, error) 
 				return u, invalidFlag(f.name, fmt.Sprintf("%q is not one of %s", v, strings.Join(meltbook.MeasurementMethods, ", ")))
 			}
 		case "composition":
-			p, err := parseCompositionAt(runValue{f.name, v, f.name})
+			p, err := runform.ParseComposition(runform.Value{Key: f.name, Value: v, Where: f.name})
 			if err != nil {
 				return u, err
 			}
@@ -566,7 +567,7 @@ func measurementUpdate(fields []amendField) (meltbook.MeasurementUpdate, error) 
 		case "operator":
 			u.Operator = &v
 		case "at":
-			t, err := parseWhen(runValue{f.name, v, f.name}, time.Local)
+			t, err := runform.ParseWhen(runform.Value{Key: f.name, Value: v, Where: f.name}, time.Local)
 			if err != nil {
 				return u, err
 			}
@@ -603,7 +604,7 @@ func observationUpdate(fields []amendField) (meltbook.ObservationUpdate, error) 
 		case "operator":
 			u.Operator = &v
 		case "at":
-			t, err := parseWhen(runValue{f.name, v, f.name}, time.Local)
+			t, err := runform.ParseWhen(runform.Value{Key: f.name, Value: v, Where: f.name}, time.Local)
 			if err != nil {
 				return u, err
 			}

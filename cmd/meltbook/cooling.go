@@ -7,6 +7,7 @@ import (
 
 	"meltbook/analysis/cooling"
 	"meltbook/analysis/quantity"
+	"meltbook/store/runform"
 )
 
 func init() { addCommand(newCoolingCommand) }
@@ -14,8 +15,8 @@ func init() { addCommand(newCoolingCommand) }
 // Defaults of the cooling command, each printed among the assumptions.
 const (
 	defaultCoolingComposition = "Al63Cu25Fe12"
-	defaultMeltTemperature    = "1200°C"
-	defaultWheelTemperature   = "20°C"
+	defaultMeltTemperature    = runform.DefaultMeltTemperature
+	defaultWheelTemperature   = runform.DefaultWheelTemperature
 )
 
 // coolingJSON is the stable machine-readable form of `cooling`.

@@ -15,6 +15,7 @@ import (
 	"meltbook"
 	"meltbook/analysis/hazard"
 	"meltbook/store"
+	"meltbook/store/runform"
 )
 
 func init() { addCommand(newLogCommand) }
@@ -42,11 +43,11 @@ terminal, missing required values are asked for. Nothing is written when any
 value is wrong. The bench cautions for the elements and the process follow.`,
 		Args: exactArgs(0, "no arguments"),
 		RunE: func(cmd *cobra.Command, _ []string) error {
-			var inputs []runInput
+			var inputs []runform.Input
 			flagged := flagRun(cmd)
 			switch {
-			case file != "" && len(flagged.values) > 0:
-				return meltbook.Errorf(meltbook.Invalid, "--file", "give the runs in the file or as flags, not both (found --%s)", flagged.values[0].key)
+			case file != "" && len(flagged.Values) > 0:
+				return meltbook.Errorf(meltbook.Invalid, "--file", "give the runs in the file or as flags, not both (found --%s)", flagged.Values[0].Key)
 			case file != "":
 				runs, err := a.readRunFiles(file)
 				if err != nil {
@@ -54,20 +55,20 @@ value is wrong. The bench cautions for the elements and the process follow.`,
 				}
 				inputs = runs
 			default:
-				if (!flagged.has("composition") || !flagged.has("mass")) && a.interactive {
+				if (!flagged.Has("composition") || !flagged.Has("mass")) && a.interactive {
 					if err := a.promptRun(&flagged); err != nil {
 						return err
 					}
 				}
-				inputs = []runInput{flagged}
+				inputs = []runform.Input{flagged}
 			}
-			built := make([]*builtRun, len(inputs))
+			built := make([]*runform.Run, len(inputs))
 			for i, in := range inputs {
-				b, err := buildRun(in, a.operator(), time.Local)
+				b, err := runform.Build(in, a.operator(), time.Local)
 				if err != nil {
 					return err
 				}
-				a.warn(b.parsed.Warnings)
+				a.warn(b.Parsed.Warnings)
 				built[i] = b
 			}
 			return a.logRuns(cmd.Context(), built, check)
@@ -76,48 +77,48 @@ value is wrong. The bench cautions for the elements and the process follow.`,
 	f := cmd.Flags()
 	f.StringVar(&file, "file", "", "read the runs from this run file (- for standard input)")
 	f.BoolVar(&check, "check", false, "check the runs and show what would be logged, without writing")
-	for _, rf := range runFields {
-		help := rf.helpText()
+	for _, rf := range runform.Fields() {
+		help := rf.HelpText()
 		switch {
-		case rf.key == "no-default-loss":
-			f.Bool(rf.key, false, "plan no rule-of-thumb evaporation allowances for Mg, Zn, Mn, Li, Ca")
-		case rf.repeat:
-			f.StringArray(rf.key, nil, help+" (repeat, or separate with commas)")
+		case rf.Key == "no-default-loss":
+			f.Bool(rf.Key, false, "plan no rule-of-thumb evaporation allowances for Mg, Zn, Mn, Li, Ca")
+		case rf.Repeat:
+			f.StringArray(rf.Key, nil, help+" (repeat, or separate with commas)")
 		default:
-			f.String(rf.key, "", help)
+			f.String(rf.Key, "", help)
 		}
 	}
 	return cmd
 }
 
 // flagRun collects the run fields given as flags.
-func flagRun(cmd *cobra.Command) runInput {
-	in := runInput{missing: func(key string) string { return "--" + key }}
+func flagRun(cmd *cobra.Command) runform.Input {
+	in := runform.Input{Missing: func(key string) string { return "--" + key }}
 	f := cmd.Flags()
-	for _, rf := range runFields {
-		if !f.Changed(rf.key) {
+	for _, rf := range runform.Fields() {
+		if !f.Changed(rf.Key) {
 			continue
 		}
-		where := "--" + rf.key
+		where := "--" + rf.Key
 		switch {
-		case rf.key == "no-default-loss":
-			on, _ := f.GetBool(rf.key)
-			in.add(rf.key, strconv.FormatBool(on), where)
-		case rf.repeat:
-			vs, _ := f.GetStringArray(rf.key)
+		case rf.Key == "no-default-loss":
+			on, _ := f.GetBool(rf.Key)
+			in.Add(rf.Key, strconv.FormatBool(on), where)
+		case rf.Repeat:
+			vs, _ := f.GetStringArray(rf.Key)
 			for _, v := range vs {
-				in.add(rf.key, v, where)
+				in.Add(rf.Key, v, where)
 			}
 		default:
-			v, _ := f.GetString(rf.key)
-			in.add(rf.key, v, where)
+			v, _ := f.GetString(rf.Key)
+			in.Add(rf.Key, v, where)
 		}
 	}
 	return in
 }
 
 // readRunFiles reads a run file, or standard input for "-".
-func (a *app) readRunFiles(name string) ([]runInput, error) {
+func (a *app) readRunFiles(name string) ([]runform.Input, error) {
 	if name == "-" {
 		return readRunFile("standard input", a.stdin)
 	}
@@ -131,7 +132,7 @@ func (a *app) readRunFiles(name string) ([]runInput, error) {
 
 // logRuns gives the runs their codes and writes them in one transaction,
 // or with check only shows what would be written.
-func (a *app) logRuns(ctx context.Context, runs []*builtRun, check bool) error {
+func (a *app) logRuns(ctx context.Context, runs []*runform.Run, check bool) error {
 	st, err := a.openNotebook(ctx)
 	if err != nil {
 		return err
@@ -144,29 +145,29 @@ func (a *app) logRuns(ctx context.Context, runs []*builtRun, check bool) error {
 	switch {
 	case check:
 		for _, r := range runs {
-			if r.prefix != "" {
+			if r.Prefix != "" {
 				continue
 			}
-			if _, err := st.FindMeltByCode(ctx, r.new.Melt.Code); err == nil {
-				return r.retarget(meltbook.Errorf(meltbook.Conflict, "code", "melt %s already exists", r.new.Melt.Code))
+			if _, err := st.FindMeltByCode(ctx, r.New.Melt.Code); err == nil {
+				return r.Retarget(meltbook.Errorf(meltbook.Conflict, "code", "melt %s already exists", r.New.Melt.Code))
 			} else if meltbook.KindOf(err) != meltbook.NotFound {
 				return err
 			}
 		}
 	case len(runs) == 1:
 		r := runs[0]
-		if err := st.CreateMelt(ctx, who, &r.new.Melt, r.new.Steps...); err != nil {
-			return r.retarget(err)
+		if err := st.CreateMelt(ctx, who, &r.New.Melt, r.New.Steps...); err != nil {
+			return r.Retarget(err)
 		}
 	default:
 		batch := make([]store.NewMelt, len(runs))
 		for i, r := range runs {
-			batch[i] = r.new
+			batch[i] = r.New
 		}
 		if err := st.CreateMelts(ctx, who, batch); err != nil {
 			var ee *store.EntryError
 			if errors.As(err, &ee) && ee.Index >= 0 && ee.Index < len(runs) {
-				return runs[ee.Index].retarget(ee.Err)
+				return runs[ee.Index].Retarget(ee.Err)
 			}
 			return err
 		}
@@ -179,7 +180,7 @@ func (a *app) logRuns(ctx context.Context, runs []*builtRun, check bool) error {
 	var elements []string
 	for _, r := range runs {
 		printLogged(a.stdout, verb, r)
-		elements = append(elements, r.parsed.Atomic.Elements()...)
+		elements = append(elements, r.Parsed.Atomic.Elements()...)
 	}
 	fmt.Fprintln(a.stdout)
 	printCautions(a.stdout, runCautions(elements))
@@ -189,47 +190,47 @@ func (a *app) logRuns(ctx context.Context, runs []*builtRun, check bool) error {
 // assignCodes gives each run without a code the next free one for its
 // prefix, after the highest one in the notebook or given in the batch, and
 // refuses a batch that names one code twice.
-func assignCodes(ctx context.Context, st *store.Store, runs []*builtRun) error {
-	taken := map[string]*builtRun{}
+func assignCodes(ctx context.Context, st *store.Store, runs []*runform.Run) error {
+	taken := map[string]*runform.Run{}
 	for _, r := range runs {
-		code := r.new.Melt.Code
+		code := r.New.Melt.Code
 		if code == "" {
 			continue
 		}
 		if other, dup := taken[code]; dup {
-			return meltbook.Errorf(meltbook.Conflict, r.where["code"], "code %s is also given at %s", code, other.where["code"])
+			return meltbook.Errorf(meltbook.Conflict, r.Where["code"], "code %s is also given at %s", code, other.Where["code"])
 		}
 		taken[code] = r
 	}
 	next := map[string]int{}
 	for _, r := range runs {
-		if r.prefix == "" {
+		if r.Prefix == "" {
 			continue
 		}
-		n, ok := next[r.prefix]
+		n, ok := next[r.Prefix]
 		if !ok {
-			first, err := st.NextMeltCode(ctx, r.prefix)
+			first, err := st.NextMeltCode(ctx, r.Prefix)
 			if err != nil {
-				return r.retargetPrefix(err)
+				return r.RetargetPrefix(err)
 			}
-			if n, err = strconv.Atoi(strings.TrimPrefix(first, r.prefix+"-")); err != nil {
-				return fmt.Errorf("next code for prefix %s: unexpected %q", r.prefix, first)
+			if n, err = strconv.Atoi(strings.TrimPrefix(first, r.Prefix+"-")); err != nil {
+				return fmt.Errorf("next code for prefix %s: unexpected %q", r.Prefix, first)
 			}
 			// Follow the highest code the batch itself gives with this prefix.
 			for code := range taken {
-				if k, err := strconv.Atoi(strings.TrimPrefix(code, r.prefix+"-")); err == nil && strings.HasPrefix(code, r.prefix+"-") && k >= n {
+				if k, err := strconv.Atoi(strings.TrimPrefix(code, r.Prefix+"-")); err == nil && strings.HasPrefix(code, r.Prefix+"-") && k >= n {
 					n = k + 1
 				}
 			}
 		}
-		code := meltCode(r.prefix, n)
+		code := meltCode(r.Prefix, n)
 		for taken[code] != nil {
 			n++
-			code = meltCode(r.prefix, n)
+			code = meltCode(r.Prefix, n)
 		}
-		r.new.Melt.Code = code
+		r.New.Melt.Code = code
 		taken[code] = r
-		next[r.prefix] = n + 1
+		next[r.Prefix] = n + 1
 	}
 	return nil
 }
@@ -237,31 +238,19 @@ func assignCodes(ctx context.Context, st *store.Store, runs []*builtRun) error {
 // meltCode writes a generated code as store.NextMeltCode does.
 func meltCode(prefix string, n int) string { return fmt.Sprintf("%s-%04d", prefix, n) }
 
-func (b *builtRun) retargetPrefix(err error) error {
-	var e *meltbook.Error
-	if errors.As(err, &e) {
-		where := b.where["prefix"]
-		if where == "" {
-			where = b.where["run"]
-		}
-		return &meltbook.Error{Kind: e.Kind, Field: strings.TrimSpace(where + " prefix"), Message: e.Message}
-	}
-	return err
-}
-
-func printLogged(w io.Writer, verb string, r *builtRun) {
-	m := &r.new.Melt
-	kinds := make([]string, len(r.new.Steps))
-	for i, s := range r.new.Steps {
+func printLogged(w io.Writer, verb string, r *runform.Run) {
+	m := &r.New.Melt
+	kinds := make([]string, len(r.New.Steps))
+	for i, s := range r.New.Steps {
 		kinds[i] = string(s.Kind)
 	}
 	steps := "no process steps"
 	if len(kinds) > 0 {
 		steps = "steps: " + strings.Join(kinds, ", ")
 	}
-	fmt.Fprintf(w, "%s %s: %s, button %s; %s\n", verb, m.Code, r.parsed.Atomic.Format(2), gramsText(m.TargetMassGrams), steps)
-	if r.estimate != nil {
-		fmt.Fprintf(w, "  estimated cooling rate %.3g K/s, %s (Biot number %.3g)\n", r.estimate.RateKPerS, r.estimate.Regime, r.estimate.Biot)
+	fmt.Fprintf(w, "%s %s: %s, button %s; %s\n", verb, m.Code, r.Parsed.Atomic.Format(2), gramsText(m.TargetMassGrams), steps)
+	if r.Estimate != nil {
+		fmt.Fprintf(w, "  estimated cooling rate %.3g K/s, %s (Biot number %.3g)\n", r.Estimate.RateKPerS, r.Estimate.Regime, r.Estimate.Biot)
 	}
 }
 

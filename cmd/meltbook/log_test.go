@@ -10,6 +10,7 @@ import (
 
 	"meltbook"
 	"meltbook/store"
+	"meltbook/store/runform"
 )
 
 // fullLog are the flags of a run with every part recorded.
@@ -297,18 +298,18 @@ func BenchmarkLog(b *testing.B) {
 // fields, planning the weigh-out and estimating the cooling rate, without
 // the notebook.
 func BenchmarkBuildRun(b *testing.B) {
-	in := runInput{missing: func(key string) string { return "--" + key }}
+	in := runform.Input{Missing: func(key string) string { return "--" + key }}
 	for _, kv := range [][2]string{
 		{"composition", "Al63Cu25Fe12"}, {"mass", "10g"}, {"weighed", "Al=4.2941g,Cu=4.0131g,Fe=1.6929g"},
 		{"arc-remelts", "4"}, {"arc-atmosphere", "Ar"}, {"wheel-material", "Cu"}, {"wheel-speed", "30m/s"},
 		{"orifice", "0.8mm"}, {"gap", "0.3mm"}, {"ejection-pressure", "25kPa"}, {"melt-temperature", "1250C"},
 		{"chamber-gas", "He"}, {"thickness", "30um"}, {"width", "2mm"},
 	} {
-		in.add(kv[0], kv[1], "--"+kv[0])
+		in.Add(kv[0], kv[1], "--"+kv[0])
 	}
 	b.ReportAllocs()
 	for i := 0; i < b.N; i++ {
-		if _, err := buildRun(in, "adaeze", time.UTC); err != nil {
+		if _, err := runform.Build(in, "adaeze", time.UTC); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -8,6 +8,7 @@ import (
 	"unicode/utf8"
 
 	"meltbook"
+	"meltbook/store/runform"
 )
 
 // Run files hold one or more runs for `meltbook log --file`:
@@ -37,7 +38,7 @@ const maxRunFileBytes = 16 << 20
 
 // readRunFile splits a run file into runs. It checks the layout only;
 // buildRun checks the fields. Errors name the file and line.
-func readRunFile(name string, r io.Reader) ([]runInput, error) {
+func readRunFile(name string, r io.Reader) ([]runform.Input, error) {
 	data, err := io.ReadAll(io.LimitReader(r, maxRunFileBytes+1))
 	if err != nil {
 		return nil, meltbook.Errorf(meltbook.Invalid, name, "cannot read: %v", err)
@@ -46,8 +47,8 @@ func readRunFile(name string, r io.Reader) ([]runInput, error) {
 		return nil, meltbook.Errorf(meltbook.Invalid, name, "larger than %d MiB; split it", maxRunFileBytes>>20)
 	}
 	data = bytes.TrimPrefix(data, []byte("\uFEFF"))
-	var runs []runInput
-	var cur *runInput
+	var runs []runform.Input
+	var cur *runform.Input
 	for i, raw := range strings.Split(string(data), "\n") {
 		line := i + 1
 		text := strings.TrimSuffix(raw, "\r")
@@ -63,11 +64,11 @@ func readRunFile(name string, r io.Reader) ([]runInput, error) {
 		case strings.HasPrefix(trimmed, "#"):
 			continue
 		case text[0] == ' ' || text[0] == '\t':
-			if cur == nil || len(cur.values) == 0 {
+			if cur == nil || len(cur.Values) == 0 {
 				return nil, meltbook.Errorf(meltbook.Invalid, at, "an indented line continues the value above it, but there is none")
 			}
-			last := &cur.values[len(cur.values)-1]
-			last.value = strings.TrimSpace(last.value + " " + trimmed)
+			last := &cur.Values[len(cur.Values)-1]
+			last.Value = strings.TrimSpace(last.Value + " " + trimmed)
 			continue
 		}
 		key, value, ok := strings.Cut(text, ":")
@@ -77,15 +78,15 @@ func readRunFile(name string, r io.Reader) ([]runInput, error) {
 		}
 		if cur == nil {
 			start := line
-			runs = append(runs, runInput{
-				where: fmt.Sprintf("%s run starting at line %d", name, start),
-				missing: func(key string) string {
+			runs = append(runs, runform.Input{
+				Where: fmt.Sprintf("%s run starting at line %d", name, start),
+				Missing: func(key string) string {
 					return fmt.Sprintf("%s run starting at line %d, field %s", name, start, key)
 				},
 			})
 			cur = &runs[len(runs)-1]
 		}
-		cur.add(key, strings.TrimSpace(value), fmt.Sprintf("%s, field %s", at, key))
+		cur.Add(key, strings.TrimSpace(value), fmt.Sprintf("%s, field %s", at, key))
 	}
 	if len(runs) == 0 {
 		return nil, meltbook.Errorf(meltbook.Invalid, name, "no runs in the file; write FIELD: VALUE lines, one block per run")

@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"meltbook"
+	"meltbook/store/runform"
 )
 
 const runFile = `# Al-Cu-Fe series, week 18 (invented runs)
@@ -142,12 +143,12 @@ func FuzzRunFile(f *testing.F) {
 			return
 		}
 		for _, in := range runs {
-			b, err := buildRun(in, "fuzzer", time.UTC)
+			b, err := runform.Build(in, "fuzzer", time.UTC)
 			if err != nil {
 				checkWhere(t, err)
 				continue
 			}
-			if b.new.Melt.Code == "" && b.prefix == "" {
+			if b.New.Melt.Code == "" && b.Prefix == "" {
 				t.Fatal("a run without a code and without a prefix to generate one")
 			}
 		}

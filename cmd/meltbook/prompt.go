@@ -8,6 +8,7 @@ import (
 
 	"meltbook"
 	"meltbook/analysis/quantity"
+	"meltbook/store/runform"
 )
 
 // prompter asks for values on a terminal: the question goes to out, the
@@ -32,8 +33,8 @@ func (p *prompter) ask(question string) (answer string, ok bool) {
 // askField asks for one field until the answer reads or is blank (when
 // blank is allowed); it returns "" for a skipped field.
 func (p *prompter) askField(key, extra string, required bool) (string, error) {
-	f, _ := runFieldByKey(key)
-	question := fmt.Sprintf("%s (%s%s): ", key, f.helpText(), extra)
+	f, _ := runform.FieldByKey(key)
+	question := fmt.Sprintf("%s (%s%s): ", key, f.HelpText(), extra)
 	for {
 		answer, ok := p.ask(question)
 		if !ok {
@@ -71,26 +72,26 @@ var promptGroups = []struct {
 // promptRun asks on the terminal for the fields of a run the command line
 // left out: first the composition and mass, which a run needs, then the
 // optional parts group by group.
-func (a *app) promptRun(in *runInput) error {
+func (a *app) promptRun(in *runform.Input) error {
 	p := &prompter{in: bufio.NewReader(a.stdin), out: a.stderr}
 	fmt.Fprintln(p.out, "Logging a melt. Give values with units (10g, 30um, 1250C); press Enter to skip what you do not know.")
 	for _, key := range []string{"composition", "mass"} {
-		if in.has(key) {
+		if in.Has(key) {
 			continue
 		}
 		answer, err := p.askField(key, "", true)
 		if err != nil {
 			return err
 		}
-		in.add(key, answer, key)
+		in.Add(key, answer, key)
 	}
 	for gi, g := range promptGroups {
 		given := false
 		for _, key := range g.keys {
-			given = given || in.has(key)
+			given = given || in.Has(key)
 		}
 		for i, key := range g.keys {
-			if in.has(key) {
+			if in.Has(key) {
 				continue
 			}
 			extra := ""
@@ -110,13 +111,13 @@ func (a *app) promptRun(in *runInput) error {
 				}
 				continue
 			}
-			in.add(key, answer, key)
-			if key == "wheel-speed" && !in.has("wheel-diameter") && isRotationRate(answer) {
+			in.Add(key, answer, key)
+			if key == "wheel-speed" && !in.Has("wheel-diameter") && isRotationRate(answer) {
 				d, err := p.askField("wheel-diameter", "", true)
 				if err != nil {
 					return err
 				}
-				in.add("wheel-diameter", d, "wheel-diameter")
+				in.Add("wheel-diameter", d, "wheel-diameter")
 			}
 		}
 	}
@@ -131,17 +132,17 @@ func isRotationRate(s string) bool {
 // checkField reads one answer on its own, so that a prompt can ask again
 // at once; buildRun still checks the run as a whole.
 func checkField(key, value string) error {
-	v := runValue{key, value, key}
-	f, _ := runFieldByKey(key)
+	v := runform.Value{Key: key, Value: value, Where: key}
+	f, _ := runform.FieldByKey(key)
 	switch {
 	case key == "composition":
-		_, err := parseCompositionAt(v)
+		_, err := runform.ParseComposition(v)
 		return err
 	case key == "mass" || key == "mass-after":
-		_, err := parsePositive(v, quantity.Mass)
+		_, err := runform.ParsePositive(v, quantity.Mass)
 		return err
 	case key == "wheel-diameter":
-		_, err := parsePositive(v, quantity.Length)
+		_, err := runform.ParsePositive(v, quantity.Length)
 		return err
 	case key == "code":
 		m := meltbook.Melt{Code: value}
@@ -153,9 +154,9 @@ func checkField(key, value string) error {
 			return nil
 		}
 		return meltbook.Errorf(meltbook.Invalid, key, "%q is neither a surface speed (30m/s) nor a rotation rate (3000rpm)", value)
-	case f.stepParam != "":
-		spec, _ := meltbook.ParamSpecFor(f.step, f.stepParam)
-		_, err := parseParam(spec, v)
+	case f.StepParam != "":
+		spec, _ := meltbook.ParamSpecFor(f.Step, f.StepParam)
+		_, err := runform.ParseParam(spec, v)
 		return err
 	}
 	return nil

@@ -11,6 +11,7 @@ import (
 
 	"meltbook"
 	"meltbook/analysis/quantity"
+	"meltbook/store/runform"
 )
 
 func init() {
@@ -28,7 +29,7 @@ func atFlag(s string) (time.Time, error) {
 	if s == "" {
 		return time.Time{}, nil
 	}
-	return parseWhen(runValue{"at", s, "--at"}, time.Local)
+	return runform.ParseWhen(runform.Value{Key: "at", Value: s, Where: "--at"}, time.Local)
 }
 
 func newAnnealCommand(a *app) *cobra.Command {
@@ -53,7 +54,7 @@ parent; its code extends the parent's (QX-0042 -> QX-0042.a1) and is printed.`,
 					continue
 				}
 				spec, _ := meltbook.ParamSpecFor(meltbook.Anneal, fv.name)
-				p, err := parseParam(spec, runValue{fv.name, fv.value, "--" + fv.name})
+				p, err := runform.ParseParam(spec, runform.Value{Key: fv.name, Value: fv.value, Where: "--" + fv.name})
 				if err != nil {
 					return err
 				}
@@ -154,7 +155,7 @@ composition with the difference.`,
 			if comp == "" {
 				return invalidFlag("--composition", "give the measured composition, e.g. --composition Al62.1Cu25.8Fe12.1")
 			}
-			parsed, err := parseCompositionAt(runValue{"composition", comp, "--composition"})
+			parsed, err := runform.ParseComposition(runform.Value{Key: "composition", Value: comp, Where: "--composition"})
 			if err != nil {
 				return err
 			}
