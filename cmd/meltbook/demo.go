@@ -141,11 +141,18 @@ func (a *app) buildDemo(ctx context.Context, fl demoFlags) (*demoNotebook, error
 	tmp.Close()
 	os.Remove(tmpPath) // store.Init creates the file itself
 	defer demoRemove(tmpPath)
-	st, err := store.Init(ctx, tmpPath, a.storeOptions())
+	clock := &scanClock{real: a.now}
+	opts := a.storeOptions()
+	opts.Now = clock.Now
+	st, err := store.Init(ctx, tmpPath, opts)
 	if err != nil {
 		return nil, err
 	}
 	if err := st.ImportDocument(ctx, "meltbook demo", doc); err != nil {
+		st.Close()
+		return nil, fmt.Errorf("build the demo notebook: %w", err)
+	}
+	if err := a.addDemoScans(ctx, st, nb, fl.seed, clock); err != nil {
 		st.Close()
 		return nil, fmt.Errorf("build the demo notebook: %w", err)
 	}
