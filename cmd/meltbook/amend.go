@@ -10,8 +10,6 @@ import (
 	"github.com/spf13/cobra"
 
 	"meltbook"
-	"meltbook/analysis/composition"
-	"meltbook/analysis/quantity"
 	"meltbook/store"
 	"meltbook/store/runform"
 )
@@ -29,9 +27,9 @@ type amendField struct {
 // amendFields lists, per target, the fields amend accepts, for help and
 // error messages.
 var amendFields = map[string]string{
-	"melt":        "operator, made, composition, mass, mass-after, notes, weighed (EL=MASS), purity (EL=PERCENT), label",
+	"melt":        runform.MeltFields,
 	"sample":      "label, made",
-	"step":        "the step's parameters by name (e.g. thickness, remelts, temperature; empty to remove), notes, operator, at",
+	"step":        runform.StepFields,
 	"outcome":     "kind, lattice, order, name, fraction, evidence",
 	"measurement": "method, composition, uncertainty (at.%, one value or EL=VALUE), notes, operator, at",
 	"symmetry":    "folds, notes, operator, at",
@@ -159,6 +157,15 @@ func (a *app) amend(ctx context.Context, st *store.Store, target string, fields 
 	return st.AmendNote(ctx, who, id, u, why)
 }
 
+// changes turns FIELD=VALUE arguments into runform's changes.
+func changes(fields []amendField) []runform.Change {
+	out := make([]runform.Change, len(fields))
+	for i, f := range fields {
+		out[i] = runform.Change{Name: f.name, Value: f.value}
+	}
+	return out
+}
+
 func unknownAmendField(target string, f amendField) error {
 	return invalidFlag(f.name, fmt.Sprintf("not a field of a %s; the fields are %s", target, amendFields[target]))
 }
@@ -204,104 +211,11 @@ func (a *app) amendCode(ctx context.Context, st *store.Store, code string, field
 		}
 		return st.AmendSample(ctx, who, code, su, why)
 	}
-	u, err := meltUpdate(m, meltFields)
+	u, err := runform.MeltUpdate(m, changes(meltFields), time.Local)
 	if err != nil {
 		return nil, err
 	}
 	return st.AmendMelt(ctx, who, code, u, why)
-}
-
-func meltUpdate(m *meltbook.Melt, fields []amendField) (meltbook.MeltUpdate, error) {
-	var u meltbook.MeltUpdate
-	weighOut := append([]meltbook.WeighOutLine(nil), m.WeighOut...)
-	weighOutChanged := false
-	line := func(f amendField) (*meltbook.WeighOutLine, string, error) {
-		el, amount, ok := strings.Cut(f.value, "=")
-		el = strings.TrimSpace(el)
-		if !ok {
-			return nil, "", invalidFlag(f.name, fmt.Sprintf("%q is not EL=VALUE", f.value))
-		}
-		for i := range weighOut {
-			if weighOut[i].Element == el {
-				return &weighOut[i], strings.TrimSpace(amount), nil
-			}
-		}
-		return nil, "", invalidFlag(f.name, el+" is not in the melt's weigh-out")
-	}
-	for _, f := range fields {
-		v := runform.Value{Key: f.name, Value: f.value, Where: f.name}
-		switch f.name {
-		case "operator":
-			if f.value == "" {
-				return u, invalidFlag(f.name, "a melt needs an operator")
-			}
-			op := f.value
-			u.Operator = &op
-		case "made":
-			t, err := runform.ParseWhen(v, time.Local)
-			if err != nil {
-				return u, err
-			}
-			u.CreatedAt = &t
-		case "composition":
-			p, err := runform.ParseComposition(v)
-			if err != nil {
-				return u, err
-			}
-			entered := f.value
-			u.CompositionEntered = &entered
-			u.Nominal = fractionsOf(p.Atomic)
-		case "mass", "mass-after":
-			q, err := runform.ParsePositive(v, quantity.Mass)
-			if err != nil {
-				return u, err
-			}
-			g := runform.Tidy(q.SI * 1000)
-			if f.name == "mass" {
-				u.TargetMassGrams = &g
-			} else {
-				u.MassAfterMeltGrams = &g
-			}
-		case "notes":
-			notes := f.value
-			u.Notes = &notes
-		case "weighed":
-			l, amount, err := line(f)
-			if err != nil {
-				return u, err
-			}
-			q, err := runform.ParsePositive(runform.Value{Key: f.name, Value: amount, Where: f.name}, quantity.Mass)
-			if err != nil {
-				return u, err
-			}
-			g := runform.Tidy(q.SI * 1000)
-			l.WeighedGrams, weighOutChanged = &g, true
-		case "purity":
-			l, amount, err := line(f)
-			if err != nil {
-				return u, err
-			}
-			x, err := runform.PercentAmount(v, amount)
-			if err != nil {
-				return u, err
-			}
-			l.PurityPercent, weighOutChanged = 100*x, true
-		default:
-			return u, unknownAmendField("melt", f)
-		}
-	}
-	if weighOutChanged {
-		u.WeighOut = weighOut
-	}
-	return u, nil
-}
-
-func fractionsOf(c composition.Composition) []meltbook.ElementFraction {
-	out := make([]meltbook.ElementFraction, len(c))
-	for i, p := range c {
-		out[i] = meltbook.ElementFraction{Element: p.Element, Fraction: p.Fraction}
-	}
-	return out
 }
 
 // meltOfSample finds the melt a sample belongs to and the sample's record.
@@ -352,79 +266,9 @@ func (a *app) amendStep(ctx context.Context, st *store.Store, ref string, fields
 	if step == nil {
 		return nil, meltbook.Errorf(meltbook.NotFound, "TARGET", "sample %s has no step %d", sample.Code, n)
 	}
-	u := meltbook.StepUpdate{}
-	var diameter runform.Value
-	speedGiven := false
-	for _, f := range fields {
-		speedGiven = speedGiven || f.name == "wheel-speed"
-		if f.name == "wheel-diameter" {
-			diameter = runform.Value{Key: f.name, Value: f.value, Where: f.name}
-		}
-	}
-	if diameter.Value != "" && !speedGiven {
-		return nil, invalidFlag("wheel-diameter", "only turns a wheel-speed given in rpm into a surface speed; give wheel-speed too")
-	}
-	var extra []runform.Value
-	recompute := false
-	for _, f := range fields {
-		v := runform.Value{Key: f.name, Value: f.value, Where: f.name}
-		switch f.name {
-		case "notes":
-			notes := f.value
-			u.Notes = &notes
-			continue
-		case "operator":
-			op := f.value
-			u.Operator = &op
-			continue
-		case "at":
-			t, err := runform.ParseWhen(v, time.Local)
-			if err != nil {
-				return nil, err
-			}
-			u.At = &t
-			continue
-		case "wheel-diameter":
-			continue
-		}
-		if step.Kind == meltbook.MeltSpin && hasString(runform.CoolingInputKeys, f.name) {
-			extra, recompute = append(extra, v), true
-			continue
-		}
-		spec, ok := meltbook.ParamSpecFor(step.Kind, f.name)
-		if !ok || f.name == "cooling-rate" || f.name == "cooling-regime" {
-			return nil, invalidFlag(f.name, fmt.Sprintf("not a parameter of a %s step you can set; it records %s", step.Kind, paramNames(step.Kind)))
-		}
-		if f.name == "thickness" || f.name == "melt-temperature" || f.name == "wheel-speed" {
-			recompute = true
-		}
-		if f.value == "" {
-			u.Unset = append(u.Unset, f.name)
-			continue
-		}
-		var p meltbook.Param
-		if f.name == "wheel-speed" {
-			var remark string
-			p, remark, err = runform.ParseWheelSpeed(v, diameter)
-			if err == nil && remark != "" {
-				notes := strings.TrimPrefix(step.Notes+"; "+remark, "; ")
-				if u.Notes != nil {
-					notes = strings.TrimPrefix(*u.Notes+"; "+remark, "; ")
-				}
-				u.Notes = &notes
-			}
-		} else {
-			p, err = runform.ParseParam(spec, v)
-		}
-		if err != nil {
-			return nil, err
-		}
-		u.Set = append(u.Set, p)
-	}
-	if recompute && step.Kind == meltbook.MeltSpin {
-		if err := recomputeCooling(rec, step, &u, extra); err != nil {
-			return nil, err
-		}
+	u, err := runform.StepUpdate(rec, step, changes(fields), time.Local)
+	if err != nil {
+		return nil, err
 	}
 	return st.AmendStep(ctx, a.operator(), step.ID, u, why)
 }
@@ -436,70 +280,6 @@ func hasString(list []string, s string) bool {
 		}
 	}
 	return false
-}
-
-func paramNames(kind meltbook.StepKind) string {
-	var names []string
-	for _, s := range meltbook.StepParams[kind] {
-		if s.Name != "cooling-rate" && s.Name != "cooling-regime" {
-			names = append(names, s.Name)
-		}
-	}
-	return strings.Join(names, ", ")
-}
-
-// recomputeCooling re-estimates the cooling rate of a melt-spin step as it
-// will be after the update, and adds the change to the update. Inputs of
-// the estimate given when the step was logged are kept unless extra gives
-// them anew.
-func recomputeCooling(rec *meltbook.MeltRecord, step *meltbook.ProcessStep, u *meltbook.StepUpdate, extra []runform.Value) error {
-	after := meltbook.ProcessStep{Kind: step.Kind}
-	for _, p := range step.Params {
-		if !hasString(u.Unset, p.Name) && p.Name != "cooling-rate" && p.Name != "cooling-regime" {
-			after.Params = append(after.Params, p)
-		}
-	}
-	for _, p := range u.Set {
-		replaced := false
-		for i := range after.Params {
-			if after.Params[i].Name == p.Name {
-				after.Params[i], replaced = p, true
-			}
-		}
-		if !replaced {
-			after.Params = append(after.Params, p)
-		}
-	}
-	c := make(composition.Composition, len(rec.Melt.Nominal))
-	for i, ef := range rec.Melt.Nominal {
-		c[i] = composition.Part{Element: ef.Element, Fraction: ef.Fraction}
-	}
-	_, thick := after.Param("thickness")
-	if regime, ok := step.Param("cooling-regime"); ok && thick {
-		for _, v := range runform.GivenCoolingInputs(regime.Text) {
-			again := false
-			for _, e := range extra {
-				again = again || e.Key == v.Key
-			}
-			if !again {
-				extra = append(extra, v)
-			}
-		}
-	}
-	_, params, err := runform.EstimateCooling(c, &after, extra, "thickness")
-	if err != nil {
-		return err
-	}
-	if params == nil {
-		for _, name := range []string{"cooling-rate", "cooling-regime"} {
-			if _, had := step.Param(name); had {
-				u.Unset = append(u.Unset, name)
-			}
-		}
-		return nil
-	}
-	u.Set = append(u.Set, params...)
-	return nil
 }
 
 func outcomeUpdate(fields []amendField) (meltbook.OutcomeUpdate, error) {
@@ -558,7 +338,7 @@ func measurementUpdate(fields []amendField) (meltbook.MeasurementUpdate, error) 
 			if err != nil {
 				return u, err
 			}
-			u.Fractions = fractionsOf(p.Atomic)
+			u.Fractions = runform.Fractions(p.Atomic)
 			elements = p.Atomic.Elements()
 		case "uncertainty":
 			uncertainty = append(uncertainty, v)
