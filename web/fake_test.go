@@ -59,6 +59,10 @@ type fakeNotebook struct {
 	mu      sync.Mutex
 	samples []fakeSample
 	notes   map[string][]meltbook.Note
+	// created and amendments are the melts logged and the amendments
+	// made, as received.
+	created    []fakeCreated
+	amendments []fakeAmendment
 	// fault, when set, is returned by every read, to test the error table.
 	fault error
 }
@@ -517,4 +521,73 @@ func (f *fakeNotebook) ConfirmProposal(ctx context.Context, who string, id int64
 
 func (f *fakeNotebook) RejectProposal(ctx context.Context, who string, id int64, why string) error {
 	return f.decide(id, meltbook.Rejected)
+}
+
+func (f *fakeNotebook) NextMeltCode(ctx context.Context, prefix string) (string, error) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	n := 0
+	for _, m := range f.melts() {
+		if strings.HasPrefix(m, prefix+"-") {
+			n++
+		}
+	}
+	return fmt.Sprintf("%s-%04d", prefix, n+1), nil
+}
+
+// CreateMelt adds the melt's own sample, with the cooling rate of its
+// melt-spin step.
+func (f *fakeNotebook) CreateMelt(ctx context.Context, who string, m *meltbook.Melt, steps ...meltbook.ProcessStep) error {
+	if err := m.Validate(); err != nil {
+		return err
+	}
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	if _, ok := f.own(m.Code); ok {
+		return meltbook.Errorf(meltbook.Conflict, "code", "melt %s already exists", m.Code)
+	}
+	s := fakeSample{code: m.Code, melt: m.Code, composition: m.Nominal, created: m.CreatedAt}
+	for _, st := range steps {
+		if p, ok := st.Param("cooling-rate"); ok && st.Kind == meltbook.MeltSpin {
+			s.rate = ptr(p.SI)
+		}
+	}
+	f.samples = append(f.samples, s)
+	f.created = append(f.created, fakeCreated{who: who, melt: *m, steps: steps})
+	return nil
+}
+
+// fakeCreated is a melt as CreateMelt received it.
+type fakeCreated struct {
+	who   string
+	melt  meltbook.Melt
+	steps []meltbook.ProcessStep
+}
+
+// fakeAmendment is an amendment as the fake received it.
+type fakeAmendment struct {
+	who, target, why string
+	update           any
+}
+
+func (f *fakeNotebook) amend(who, target, why string, u any) ([]meltbook.HistoryEntry, error) {
+	if strings.TrimSpace(why) == "" {
+		return nil, meltbook.Errorf(meltbook.Invalid, "why", "an amendment needs a reason")
+	}
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	f.amendments = append(f.amendments, fakeAmendment{who: who, target: target, why: why, update: u})
+	return []meltbook.HistoryEntry{{Who: who, Action: "amend", Why: why}}, nil
+}
+
+func (f *fakeNotebook) AmendMelt(ctx context.Context, who, code string, u meltbook.MeltUpdate, why string) ([]meltbook.HistoryEntry, error) {
+	return f.amend(who, code, why, u)
+}
+
+func (f *fakeNotebook) AmendSample(ctx context.Context, who, code string, u meltbook.SampleUpdate, why string) ([]meltbook.HistoryEntry, error) {
+	return f.amend(who, code, why, u)
+}
+
+func (f *fakeNotebook) AmendStep(ctx context.Context, who string, stepID int64, u meltbook.StepUpdate, why string) ([]meltbook.HistoryEntry, error) {
+	return f.amend(who, fmt.Sprintf("step %d", stepID), why, u)
 }

@@ -42,6 +42,16 @@ type Notebook interface {
 	// why is optional.
 	ConfirmProposal(ctx context.Context, who string, outcomeID int64, why string) error
 	RejectProposal(ctx context.Context, who string, outcomeID int64, why string) error
+
+	// NextMeltCode returns the next free melt code for a prefix, and
+	// CreateMelt logs a melt with its own sample and steps.
+	NextMeltCode(ctx context.Context, prefix string) (string, error)
+	CreateMelt(ctx context.Context, who string, m *meltbook.Melt, steps ...meltbook.ProcessStep) error
+	// AmendMelt, AmendSample and AmendStep change recorded values, with
+	// a reason, returning the history rows written.
+	AmendMelt(ctx context.Context, who, code string, u meltbook.MeltUpdate, why string) ([]meltbook.HistoryEntry, error)
+	AmendSample(ctx context.Context, who, code string, u meltbook.SampleUpdate, why string) ([]meltbook.HistoryEntry, error)
+	AmendStep(ctx context.Context, who string, stepID int64, u meltbook.StepUpdate, why string) ([]meltbook.HistoryEntry, error)
 }
 
 // ScanView is a scan with what analysis made of it, ready to draw: what

@@ -14,6 +14,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"meltbook"
+	"meltbook/analysis/hazard"
 	"meltbook/store"
 	"meltbook/store/query"
 	"meltbook/web/plot"
@@ -293,6 +294,16 @@ type runPage struct {
 	// PhaseKinds and Lattices fill the outcome form's choices.
 	PhaseKinds []meltbook.PhaseKind
 	Lattices   []string
+	// Amend is the amend form as typed; AmendTargets and AmendNames fill
+	// its choices.
+	Amend        amendForm
+	AmendTargets []amendTarget
+	AmendNames   []string
+	// Logged is set on the page opened right after logging the melt.
+	Logged bool
+	// Cautions are the bench cautions for the melt's elements and its
+	// process.
+	Cautions []hazard.Caution
 }
 
 type outcomeForm struct {
@@ -330,6 +341,14 @@ func (s *Server) loadRun(r *http.Request, code string) (p runPage, err error) {
 	p.Author = s.cfg.Author
 	p.PhaseKinds = meltbook.PhaseKinds
 	p.Lattices = []string{"P", "I", "F"}
+	p.Amend = amendForm{Target: "melt", By: s.cfg.Author}
+	p.AmendTargets = amendTargets(rec)
+	p.AmendNames = amendFieldNames()
+	var elements []string
+	for _, ef := range rec.Melt.Nominal {
+		elements = append(elements, ef.Element)
+	}
+	p.Cautions = runCautions(elements)
 	scans, err := s.nb.MeltScans(r.Context(), rec.Melt.Code)
 	if err != nil {
 		return p, err
@@ -348,6 +367,7 @@ func (s *Server) run(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	p.Note = noteForm{Author: s.cfg.Author}
+	p.Logged = r.URL.Query().Get("logged") == "1"
 	s.render(w, r, http.StatusOK, "run", p.Run.Melt.Code, p)
 }
 

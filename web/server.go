@@ -135,12 +135,15 @@ func (s *Server) routes() chi.Router {
 	r.Get("/runs", s.runs)
 	r.Get("/runs.csv", s.runsCSV)
 	r.Get("/runs/{code}", s.run)
+	r.Get("/log", s.logForm)
 	// Every route that changes the notebook goes in this group.
 	r.Group(func(r chi.Router) {
 		r.Use(s.requireFormKey)
+		r.Post("/log", s.logRun)
 		r.Post("/runs/{code}/notes", s.addNote)
 		r.Post("/runs/{code}/outcomes", s.addOutcome)
 		r.Post("/runs/{code}/proposals/{id}", s.decideProposal)
+		r.Post("/runs/{code}/amend", s.amend)
 	})
 	r.Get("/scans/{id}", s.scan)
 	r.Get("/map", s.compositionMap)
