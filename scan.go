@@ -70,7 +70,8 @@ type Scan struct {
 	// SHA-256 digest of its bytes.
 	FileName string `json:"file_name"`
 	SHA256   string `json:"sha256"`
-	// Format is the file format as read: "XY", "XYE" or "powder CIF".
+	// Format is the file format as read, as analysis/scanfile names it:
+	// "xy", "xye" or "pdcif".
 	Format    string        `json:"format"`
 	Radiation ScanRadiation `json:"radiation"`
 	// InternalStandard names the line-position standard mixed into the

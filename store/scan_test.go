@@ -29,7 +29,7 @@ func digest(s string) string {
 // newScan is an invented scan of sample with three points per degree from
 // 20° to 30°; file names its file and its digest.
 func newScan(sample, file string) meltbook.Scan {
-	sc := meltbook.Scan{SampleCode: sample, FileName: file, SHA256: digest(file), Format: "XY", Radiation: testRadiation}
+	sc := meltbook.Scan{SampleCode: sample, FileName: file, SHA256: digest(file), Format: "xy", Radiation: testRadiation}
 	for i := 0; i <= 30; i++ {
 		sc.TwoThetaDeg = append(sc.TwoThetaDeg, 20+float64(i)/3)
 		sc.Counts = append(sc.Counts, 100+float64(i%7))

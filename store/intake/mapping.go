@@ -203,7 +203,7 @@ func splitFields(line string, sep byte) ([]string, []int, *fieldError) {
 // naming rule: the base name without its last extension, up to the first
 // underscore or space. "QR-0042.a1_xrd.xy" and "QR-0042.a1 second.xye" give
 // "QR-0042.a1"; "QR-0042.xy" gives "QR-0042". ok is false when nothing is
-// left.
+// left or the name starts with a dot.
 func SampleFromFileName(path string) (code string, ok bool) {
 	base := filepath.Base(filepath.ToSlash(path))
 	if ext := filepath.Ext(base); ext != "" && ext != base {
@@ -213,5 +213,8 @@ func SampleFromFileName(path string) (code string, ok bool) {
 		base = base[:i]
 	}
 	base = strings.TrimSpace(base)
-	return base, base != "" && base != "." && base != ".."
+	if base == "" || strings.HasPrefix(base, ".") {
+		return "", false
+	}
+	return base, true
 }
