@@ -299,6 +299,12 @@ type runPage struct {
 	Amend        amendForm
 	AmendTargets []amendTarget
 	AmendNames   []string
+	// Upload is the scan upload form of the sample it names, as typed;
+	// CanUpload says whether the server takes uploads at all.
+	Upload     scanForm
+	CanUpload  bool
+	Radiations []struct{ Value, Label string }
+	Standards  []string
 	// Logged is set on the page opened right after logging the melt.
 	Logged bool
 	// Cautions are the bench cautions for the melt's elements and its
@@ -349,6 +355,7 @@ func (s *Server) loadRun(r *http.Request, code string) (p runPage, err error) {
 		elements = append(elements, ef.Element)
 	}
 	p.Cautions = runCautions(elements)
+	p.CanUpload, p.Radiations, p.Standards = s.cfg.AddScan != nil, scanRadiations, scanStandards
 	scans, err := s.nb.MeltScans(r.Context(), rec.Melt.Code)
 	if err != nil {
 		return p, err

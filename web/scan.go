@@ -6,9 +6,7 @@ import (
 	"strings"
 
 	"meltbook"
-	"meltbook/analysis/peaks"
-	"meltbook/analysis/radiation"
-	"meltbook/analysis/scanfile"
+	"meltbook/store/intake"
 	"meltbook/web/plot"
 )
 
@@ -18,9 +16,9 @@ import (
 // internal standard's lines named as such, and every other peak marked
 // unexplained.
 //
-// The background and profile are presentation only: they come from running
-// the peak search (package peaks, default options, the scan's radiation)
-// on the stored points again, as the intake ran it. Peaks and labels are the
+// The background and profile are presentation only: intake.Curves runs
+// the peak search again on the stored points with the current indexing's
+// radiation and standard, as the intake ran it. Peaks and labels are the
 // stored ones.
 func scanView(rec *meltbook.ScanRecord) ScanView {
 	sc := &rec.Scan
@@ -30,11 +28,8 @@ func scanView(rec *meltbook.ScanRecord) ScanView {
 		Proposals: rec.Proposals,
 		Pattern:   plot.Pattern{TwoThetaDeg: sc.TwoThetaDeg, Counts: sc.Counts, Peaks: []plot.PeakMark{}},
 	}
-	if rad, err := radiation.ParseRadiation(sc.Radiation.Text); err == nil {
-		res, err := peaks.Find(scanfile.Scan{TwoThetaDeg: sc.TwoThetaDeg, Counts: sc.Counts, Errors: sc.CountErrors}, rad, peaks.Options{})
-		if err == nil && len(res.Background) == len(sc.TwoThetaDeg) {
-			v.Pattern.Background, v.Pattern.Fit = res.Background, res.Profile
-		}
+	if bg, fit, err := intake.Curves(rec); err == nil && len(bg) == len(sc.TwoThetaDeg) && len(fit) == len(bg) {
+		v.Pattern.Background, v.Pattern.Fit = bg, fit
 	}
 	if v.Current == nil {
 		return v

@@ -108,17 +108,28 @@ func sameSecret(given, want string) bool {
 	return subtle.ConstantTimeCompare([]byte(given), []byte(want)) == 1
 }
 
-// limitBody caps every request body at Config.MaxBodyBytes; reading past it
-// fails with *http.MaxBytesError, which the error table maps to 413.
+// limitBody caps every request body at Config.MaxBodyBytes, a scan upload
+// at Config.MaxUploadBytes; reading past it fails with
+// *http.MaxBytesError, which the error table maps to 413.
 func (s *Server) limitBody(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		if r.ContentLength > s.cfg.MaxBodyBytes {
-			s.fail(w, r, &http.MaxBytesError{Limit: s.cfg.MaxBodyBytes})
+		limit := s.cfg.MaxBodyBytes
+		if isUpload(r) {
+			limit = s.cfg.MaxUploadBytes
+		}
+		if r.ContentLength > limit {
+			s.fail(w, r, &http.MaxBytesError{Limit: limit})
 			return
 		}
-		r.Body = http.MaxBytesReader(w, r.Body, s.cfg.MaxBodyBytes)
+		r.Body = http.MaxBytesReader(w, r.Body, limit)
 		next.ServeHTTP(w, r)
 	})
+}
+
+// isUpload reports whether r posts a scan file (POST /runs/{code}/scans).
+func isUpload(r *http.Request) bool {
+	rest, ok := strings.CutPrefix(r.URL.Path, "/runs/")
+	return r.Method == http.MethodPost && ok && strings.HasSuffix(rest, "/scans") && strings.Count(rest, "/") == 1
 }
 
 // Forms are protected against cross-site submission twice over:
@@ -168,8 +179,15 @@ func (s *Server) requireFormKey(next http.Handler) http.Handler {
 	return crossOrigin.Handler(http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		given := r.Header.Get(csrfHeader)
 		if given == "" {
-			// Reading the form here reads the body, within its limit.
-			if err := r.ParseForm(); err != nil {
+			// Reading the form here reads the body, within its limit; an
+			// upload is held in memory, as its limit is small.
+			var err error
+			if strings.HasPrefix(r.Header.Get("Content-Type"), "multipart/form-data") {
+				err = r.ParseMultipartForm(s.cfg.MaxUploadBytes)
+			} else {
+				err = r.ParseForm()
+			}
+			if err != nil {
 				s.fail(w, r, bodyError(err))
 				return
 			}

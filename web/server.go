@@ -22,6 +22,8 @@ import (
 	"meltbook"
 	"meltbook/analysis/descriptor"
 	"meltbook/analysis/element"
+	"meltbook/store"
+	"meltbook/store/intake"
 	"meltbook/store/query"
 )
 
@@ -45,14 +47,26 @@ type Config struct {
 	Token string
 	// Author fills the author field of new notes, e.g. the user's login.
 	Author string
-	// MaxBodyBytes caps the body of any request; default 1 MiB.
+	// MaxBodyBytes caps the body of any request but a scan upload;
+	// default 1 MiB.
 	MaxBodyBytes int64
+	// MaxUploadBytes caps a scan upload; default 8 MiB.
+	MaxUploadBytes int64
+	// AddScan brings an uploaded scan file into the notebook: reads it,
+	// finds and indexes its peaks, stores it and proposes outcomes. Nil
+	// means intake.Add on Notebook when it is a *store.Store; otherwise the
+	// pages offer no upload.
+	AddScan func(ctx context.Context, who string, f intake.File, opt intake.Options) (*intake.Result, error)
 	// Log receives internal errors; nil means slog.Default().
 	Log *slog.Logger
 }
 
 // DefaultMaxBodyBytes is the body limit when Config.MaxBodyBytes is zero.
 const DefaultMaxBodyBytes = 1 << 20
+
+// DefaultMaxUploadBytes is the scan upload limit when
+// Config.MaxUploadBytes is zero.
+const DefaultMaxUploadBytes = 8 << 20
 
 // Server serves the notebook's pages and JSON API.
 type Server struct {
@@ -78,6 +92,14 @@ func NewServer(cfg Config) (*Server, error) {
 	}
 	if cfg.MaxBodyBytes <= 0 {
 		cfg.MaxBodyBytes = DefaultMaxBodyBytes
+	}
+	if cfg.MaxUploadBytes <= 0 {
+		cfg.MaxUploadBytes = DefaultMaxUploadBytes
+	}
+	if st, ok := cfg.Notebook.(*store.Store); ok && cfg.AddScan == nil {
+		cfg.AddScan = func(ctx context.Context, who string, f intake.File, opt intake.Options) (*intake.Result, error) {
+			return intake.Add(ctx, st, who, f, opt)
+		}
 	}
 	if cfg.SizeMismatch == nil {
 		cfg.SizeMismatch = SizeMismatchCN12
@@ -144,6 +166,7 @@ func (s *Server) routes() chi.Router {
 		r.Post("/runs/{code}/outcomes", s.addOutcome)
 		r.Post("/runs/{code}/proposals/{id}", s.decideProposal)
 		r.Post("/runs/{code}/amend", s.amend)
+		r.Post("/runs/{code}/scans", s.uploadScan)
 	})
 	r.Get("/scans/{id}", s.scan)
 	r.Get("/map", s.compositionMap)

@@ -82,6 +82,9 @@ func (a *app) serve(ctx context.Context, st *store.Store, fl serveFlags) error {
 	if err != nil {
 		return err
 	}
+	// Uploads index their scans; the kept calibration makes that fast.
+	a.loadCalibration()
+	defer a.saveCalibration()
 	url, err := srv.Listen(fl.listen)
 	if err != nil {
 		return meltbook.Errorf(meltbook.Invalid, "--listen", "cannot serve on %q (write HOST:PORT, e.g. 127.0.0.1:8080): %v", fl.listen, err)
