@@ -20,6 +20,8 @@ import (
 	cdplog "github.com/chromedp/cdproto/log"
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
+
+	"meltbook/web"
 )
 
 // chromiumPath finds Debian's Chromium. Without one the browser tests are
@@ -42,7 +44,7 @@ func chromiumPath(t *testing.T) string {
 // browserSession starts the server on a free loopback port and a headless
 // Chromium with its own profile. Every wait in the test is bounded by the
 // context's deadline.
-func browserSession(t *testing.T, nb *fakeNotebook) (ctx context.Context, base string, problems func() []string) {
+func browserSession(t *testing.T, nb web.Notebook) (ctx context.Context, base string, problems func() []string) {
 	t.Helper()
 	path := chromiumPath(t)
 	s := newServer(t, nb)

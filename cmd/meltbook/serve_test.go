@@ -46,6 +46,8 @@ type serving struct {
 // code. Every wait is bounded.
 func startServing(t *testing.T, args ...string) *serving {
 	t.Helper()
+	// The indexing calibration is kept in the cache folder.
+	t.Setenv("XDG_CACHE_HOME", t.TempDir())
 	ctx, cancel := context.WithCancel(context.Background())
 	s := &serving{out: &syncBuffer{}, errs: &syncBuffer{}}
 	done := make(chan int, 1)
