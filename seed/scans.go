@@ -260,6 +260,9 @@ func normalise(ls []powderLine, floor float64) []powderLine {
 // surfaces,
 //
 //	I ∝ m · exp(−(|G⊥|·a6 / 0.18)²) · LP(2θ)
+//
+// keeping the lines of at least 2 % of the strongest, the ones a laboratory
+// scan of a ribbon shows.
 func icosahedralLines(lattice string, aR, fwhm float64) []powderLine {
 	lat := icosa.Primitive
 	if lattice == "F" {
@@ -277,7 +280,7 @@ func icosahedralLines(lattice string, aR, fwhm float64) []powderLine {
 		w := float64(f.Multiplicity) * math.Exp(-math.Pow(f.Perp/0.18, 2)) * lorentzPolarisation(tt)
 		ls = append(ls, powderLine{d: d, intensity: w, fwhmDeg: fwhm})
 	}
-	return normalise(ls, 0.005)
+	return normalise(ls, 0.02)
 }
 
 // approximantLines lists the lines of a cubic P approximant of cell a (Å)
@@ -299,9 +302,9 @@ func approximantLines(a, aR, fwhm float64) []powderLine {
 			rel := math.Abs(p.d-d) / d
 			w += p.intensity * math.Exp(-math.Pow(rel/0.006, 2))
 		}
-		ls = append(ls, powderLine{d: d, intensity: w + 0.01, fwhmDeg: fwhm})
+		ls = append(ls, powderLine{d: d, intensity: w, fwhmDeg: fwhm})
 	}
-	return normalise(ls, 0.005)
+	return normalise(ls, 0.03)
 }
 
 // sumOfThreeSquares reports whether s = h² + k² + l² for some integers.
@@ -318,9 +321,9 @@ func sumOfThreeSquares(s int) bool {
 }
 
 // crystalLines lists the lines of a crystalline phase: every reflection
-// the centring allows, summed over equal d, times LP and a Debye-Waller-like
-// fall-off exp(−2B s²) with B = 1 Å² and s = 1/(2d), times the cell's
-// intensity rule.
+// the centring allows, summed over equal d (so that multiplicity counts),
+// or for a complex cell one invented weight per line, times LP and a
+// Debye-Waller-like fall-off exp(−2B s²) with B = 1 Å² and s = 1/(2d).
 func crystalLines(name string, c cell, fwhm float64) []powderLine {
 	b, cc, beta := c.b, c.c, c.betaDeg
 	if b == 0 {
@@ -355,12 +358,8 @@ func crystalLines(name string, c cell, fwhm float64) []powderLine {
 				}
 				d := 1 / math.Sqrt(q2)
 				w := 1.0
-				switch {
-				case c.b2 && (h+k+l)%2 != 0:
+				if c.b2 && (h+k+l)%2 != 0 {
 					w = 0.12
-				case c.b2, c.simple:
-				default:
-					w = inventedWeight(name, h, k, l)
 				}
 				key := int64(math.Round(d * 1e4))
 				if g, ok := groups[key]; ok {
@@ -372,10 +371,13 @@ func crystalLines(name string, c cell, fwhm float64) []powderLine {
 		}
 	}
 	var ls []powderLine
-	for _, g := range groups {
+	for key, g := range groups {
 		tt, ok := twoThetaOf(g.d)
 		if !ok {
 			continue
+		}
+		if !c.b2 && !c.simple {
+			g.intensity = inventedWeight(name, key)
 		}
 		s := 1 / (2 * g.d)
 		g.intensity *= lorentzPolarisation(tt) * math.Exp(-2*s*s)
@@ -385,7 +387,7 @@ func crystalLines(name string, c cell, fwhm float64) []powderLine {
 	floor := 0.005
 	if !c.b2 && !c.simple {
 		// Complex cells: keep the lines a laboratory scan shows clearly.
-		floor = 0.04
+		floor = 0.2
 	}
 	return normalise(ls, floor)
 }
@@ -407,28 +409,15 @@ func allowed(centring byte, h, k, l int) bool {
 	return true
 }
 
-// inventedWeight is a repeatable weight in (0, 1] for a reflection of a
-// named phase, mostly small with a few strong lines, as real patterns of
-// complex phases look. Signs of the indices and the order of h and k are
-// ignored, so that reflections a tetragonal symmetry makes equivalent weigh
-// alike. It is invented.
-func inventedWeight(name string, h, k, l int) float64 {
-	ah, ak, al := abs(h), abs(k), abs(l)
-	if ah < ak {
-		ah, ak = ak, ah
-	}
+// inventedWeight is a repeatable weight in (0, 1] for the line of a named
+// phase at d-spacing key (10⁻⁴ Å), mostly small with a few strong lines,
+// as real patterns of complex phases look. It is invented.
+func inventedWeight(name string, key int64) float64 {
 	f := fnv.New64a()
 	f.Write([]byte(name))
-	f.Write([]byte{byte(ah), byte(ah >> 8), byte(ak), byte(ak >> 8), byte(al), byte(al >> 8)})
+	f.Write([]byte(fmt.Sprint(key)))
 	u := float64(f.Sum64()%1_000_000) / 1_000_000
-	return 0.02 + math.Pow(u, 6)
-}
-
-func abs(x int) int {
-	if x < 0 {
-		return -x
-	}
-	return x
+	return 0.05 + math.Pow(u, 4)
 }
 
 // writeXY draws the pattern: a background falling from low angle, each line
