@@ -57,6 +57,12 @@ func fccAlLines() []line {
 // counts, an optional broad hump, and Poisson noise from seed. Every
 // position follows Bragg's law, 2θ = 2 asin(λ/2d), computed here.
 func pattern(lines []line, peakCounts float64, hump *hump, seed uint64) []byte {
+	return shiftedPattern(lines, peakCounts, hump, 0, seed)
+}
+
+// shiftedPattern is pattern with every line moved by zeroDeg in 2θ, as a
+// diffractometer's zero error moves them.
+func shiftedPattern(lines []line, peakCounts float64, hump *hump, zeroDeg float64, seed uint64) []byte {
 	rng := rand.New(rand.NewPCG(seed, 7))
 	var b strings.Builder
 	b.WriteString("# invented test pattern, Cu Kα1/Kα2\n2Theta Counts\n")
@@ -71,7 +77,7 @@ func pattern(lines []line, peakCounts float64, hump *hump, seed uint64) []byte {
 				if s >= 1 {
 					continue
 				}
-				c := 2 * math.Asin(s) * 180 / math.Pi
+				c := 2*math.Asin(s)*180/math.Pi + zeroDeg
 				y += w.scale * peakCounts * l.height / 100 * math.Exp(-(tt-c)*(tt-c)/(2*sigma*sigma))
 			}
 		}

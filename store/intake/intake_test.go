@@ -351,3 +351,44 @@ func TestCalibrationFile(t *testing.T) {
 		t.Error("a damaged file is not replaced")
 	}
 }
+
+func TestAddWithInternalStandard(t *testing.T) {
+	st := mustOpen(t)
+	addMelt(t, st, "QA-0001", "Al", 1.0)
+	// Si of NIST SRM 640f, a = 5.431144 Å (certificate), diamond lines
+	// 111, 220, 311, 400, 331, 422 (h, k, l all odd, or all even with
+	// h+k+l = 4n: common practice), mixed with fcc Al, every line moved by
+	// a zero error of +0.060°.
+	si := cubicLines(5.431144, [][3]int{{1, 1, 1}, {2, 2, 0}, {3, 1, 1}, {4, 0, 0}, {3, 3, 1}, {4, 2, 2}}, []float64{60, 35, 20, 6, 8, 10})
+	data := shiftedPattern(append(fccAlLines(), si...), 5000, nil, 0.060, 6)
+	res, err := intake.Add(ctx, st, "Ada Quill", intake.File{Sample: "QA-0001", Name: "al+si.xy", Data: data}, intake.Options{Radiation: "Cu", Standard: "Si"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec := res.Record
+	x := rec.Current()
+	if rec.Scan.InternalStandard != "Si (NIST SRM 640f)" || x.InternalStandard != rec.Scan.InternalStandard {
+		t.Errorf("standard %q, %q", rec.Scan.InternalStandard, x.InternalStandard)
+	}
+	// The zero shift comes back within 0.01° of the 0.060° put in.
+	if x.ZeroShiftDeg == nil || math.Abs(*x.ZeroShiftDeg-0.060) > 0.01 {
+		t.Fatalf("zero shift %v; want 0.060 ± 0.01°", x.ZeroShiftDeg)
+	}
+	standard := 0
+	for _, p := range x.Peaks {
+		if p.Standard != "" {
+			standard++
+		}
+		if p.CorrectedTwoThetaDeg == nil {
+			t.Errorf("peak at %.3f° has no corrected angle", p.TwoThetaDeg)
+		}
+	}
+	if standard < 5 || x.SpecimenPeaks() != 6 {
+		t.Errorf("%d standard and %d specimen peaks; want the six Si lines in range (at least five found) and six Al ones", standard, x.SpecimenPeaks())
+	}
+	// Indexed on the corrected angles, Al comes out at its own a, with
+	// the Si lines left out of the indexing.
+	if ph := only(t, res); math.Abs(ph.ConstantA-alA) > 0.002 || len(ph.Assignments) != 6 {
+		t.Errorf("phase %s with %d peaks; want fcc Al from its six lines", ph.Title(), len(ph.Assignments))
+	}
+}
