@@ -14,6 +14,7 @@ import (
 	"golang.org/x/term"
 
 	"meltbook"
+	"meltbook/analysis/scanfile"
 	"meltbook/store"
 	"meltbook/store/intake"
 )
@@ -267,8 +268,8 @@ func (a *app) addScanFile(ctx context.Context, st *store.Store, j scanJob, opt i
 	if err != nil {
 		return nil, meltbook.Errorf(meltbook.NotFound, j.path, "no such file")
 	}
-	if info.Size() > 64<<20 {
-		return nil, meltbook.Errorf(meltbook.Invalid, j.path, "larger than 64 MiB; is this a scan?")
+	if info.Size() > scanfile.MaxBytes {
+		return nil, meltbook.Errorf(meltbook.Invalid, j.path, "larger than %d MiB; is this a scan?", scanfile.MaxBytes>>20)
 	}
 	data, err := os.ReadFile(j.path)
 	if err != nil {

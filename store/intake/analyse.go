@@ -70,6 +70,8 @@ func analyse(sc *meltbook.Scan, rad radiation.Radiation, std *peaks.Standard, to
 		}
 	}
 	iopt := indexing.Options{ToleranceDeg: toleranceDeg}
+	// The settings recorded are those Index uses: its defaults, 0.10° and
+	// a chance of 0.01, unless a tolerance is given.
 	x.ToleranceDeg, x.MaxChance = 0.10, 0.01
 	if toleranceDeg > 0 {
 		x.ToleranceDeg = toleranceDeg
