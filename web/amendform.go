@@ -37,7 +37,7 @@ type amendTarget struct {
 
 // amendTargets lists the melt and each recorded step of its samples.
 func amendTargets(rec *meltbook.MeltRecord) []amendTarget {
-	out := []amendTarget{{"melt", "Melt " + rec.Melt.Code + " (" + runform.MeltFields + ")"}}
+	out := []amendTarget{{"melt", "Melt " + rec.Melt.Code}}
 	for _, sr := range rec.Samples {
 		for _, st := range sr.Steps {
 			out = append(out, amendTarget{fmt.Sprintf("step:%s:%d", sr.Code, st.Seq), fmt.Sprintf("%s step %d, %s", sr.Code, st.Seq, st.Kind)})

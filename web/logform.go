@@ -48,7 +48,7 @@ var logGroups = []struct {
 	{"Melt", "Give a code, or leave it empty for the next free one with the prefix.", false, func(f runform.Field) bool {
 		return slices.Contains([]string{"code", "prefix", "composition", "mass", "operator", "made", "notes"}, f.Key)
 	}},
-	{"Weigh-out", "Planned as `meltbook weigh` plans it; give the masses actually weighed, EL=MASS, separated by commas.", false, func(f runform.Field) bool {
+	{"Weigh-out", "Planned as meltbook weigh plans it; give the masses actually weighed beside it.", false, func(f runform.Field) bool {
 		return slices.Contains([]string{"weighed", "purity", "loss", "no-default-loss", "mass-after"}, f.Key)
 	}},
 	{"Arc melting", "", false, func(f runform.Field) bool { return f.Step == meltbook.ArcMelt }},
@@ -60,6 +60,17 @@ var logGroups = []struct {
 	}},
 }
 
+// logHelp replaces the help of fields whose command-line wording does not
+// fit a form.
+var logHelp = map[string]string{
+	"operator":        "who made the melt",
+	"no-default-loss": "plan no rule-of-thumb evaporation allowances for Mg, Zn, Mn, Li, Ca",
+	"made":            "when the melt was made, local time (empty: now)",
+	"weighed":         "masses actually weighed, EL=MASS, comma-separated",
+	"purity":          "purity of the pieces in percent, EL=PERCENT (default 100)",
+	"loss":            "evaporation allowance planned, EL=PERCENT",
+}
+
 // logLabels name fields whose key reads badly as a label.
 var logLabels = map[string]string{
 	"mass": "Target mass", "made": "Made", "no-default-loss": "No rule-of-thumb loss allowances",
@@ -69,8 +80,10 @@ var logLabels = map[string]string{
 
 type logPage struct {
 	Groups []logGroup
-	// Error is a message that belongs to no single field.
-	Error string
+	// Error is a message that belongs to no single field; Problem is the
+	// first field with a message, named at the top of a refused form.
+	Error   string
+	Problem *logField
 	// Cautions are the bench cautions of melting and spinning.
 	Cautions []hazard.Caution
 }
@@ -84,6 +97,9 @@ func newLogPage(typed url.Values, errs map[string]string, author string) logPage
 		for _, f := range runform.Fields() {
 			if !g.keys(f) {
 				continue
+			}
+			if h, ok := logHelp[f.Key]; ok {
+				f.Help = h
 			}
 			lf := logField{Field: f, Label: logLabels[f.Key], Value: typed.Get(f.Key), Error: errs[f.Key], Kind: "text"}
 			if lf.Label == "" {
@@ -102,6 +118,10 @@ func newLogPage(typed url.Values, errs map[string]string, author string) logPage
 				lf.Value = author
 			}
 			lg.Open = lg.Open || lf.Value != "" || lf.Error != ""
+			if lf.Error != "" && p.Problem == nil {
+				problem := lf
+				p.Problem = &problem
+			}
 			lg.Fields = append(lg.Fields, lf)
 		}
 		p.Groups = append(p.Groups, lg)
@@ -110,17 +130,21 @@ func newLogPage(typed url.Values, errs map[string]string, author string) logPage
 }
 
 // runCautions are the cautions of arc melting and melt spinning and of the
-// elements given, the deferral to local rules last.
+// elements given, and once, last, the deferral to local rules, as
+// `meltbook log` prints them.
 func runCautions(elements []string) []hazard.Caution {
-	var out, last []hazard.Caution
+	var out []hazard.Caution
 	for _, c := range append(hazard.Cautions(elements), hazard.ProcessCautions()...) {
-		if c.Kind == hazard.LocalRules {
-			last = append(last, c)
-			continue
+		if c.Kind != hazard.LocalRules {
+			out = append(out, c)
 		}
-		out = append(out, c)
 	}
-	return append(out, last...)
+	for _, c := range hazard.ProcessCautions() {
+		if c.Kind == hazard.LocalRules {
+			out = append(out, c)
+		}
+	}
+	return out
 }
 
 func (s *Server) logForm(w http.ResponseWriter, r *http.Request) {

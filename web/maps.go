@@ -6,6 +6,7 @@ import (
 	"math"
 	"net/http"
 	"net/url"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -142,12 +143,16 @@ func (s *Server) readControls(q url.Values, samples []store.MapSample, withCorne
 		return c, f
 	}
 	if c.A == "" && c.B == "" && c.C == "" {
-		corners := commonElements(samples, 3)
-		if len(corners) < 3 {
-			c.fail("a", "the notebook holds fewer than three elements; a ternary map needs three corners")
-			return c, f
+		if systems := systemTriangles(samples, f.outside); len(systems) > 0 {
+			c.A, c.B, c.C = systems[0].Corners[0], systems[0].Corners[1], systems[0].Corners[2]
+		} else {
+			corners := commonElements(samples, 3)
+			if len(corners) < 3 {
+				c.fail("a", "the notebook holds fewer than three elements; a ternary map needs three corners")
+				return c, f
+			}
+			c.A, c.B, c.C = corners[0], corners[1], corners[2]
 		}
-		c.A, c.B, c.C = corners[0], corners[1], corners[2]
 	}
 	var corners [3]plot.Corner
 	ok := true
@@ -176,6 +181,80 @@ func (s *Server) readControls(q url.Values, samples []store.MapSample, withCorne
 		}
 	}
 	return c, f
+}
+
+// systemTriangle is a ternary map that draws many of the samples.
+type systemTriangle struct {
+	Corners [3]string
+	// Samples is how many samples the map draws.
+	Samples int
+}
+
+// maxSystemTriangles caps the triangles systemTriangles weighs.
+const maxSystemTriangles = 12
+
+// systemTriangles proposes single-element corners for the notebook's
+// alloy systems: each sample's three largest elements make a candidate,
+// the most frequent candidates are counted over every sample (one is drawn
+// when at most outside of it lies beyond the corners), and the corners of
+// each are ordered by their summed fraction over the samples drawn, the
+// major element first. Most samples drawn first.
+func systemTriangles(samples []store.MapSample, outside float64) []systemTriangle {
+	type key [3]string
+	freq := map[key]int{}
+	for i := range samples {
+		c := samples[i].Composition
+		if len(c) < 3 {
+			continue
+		}
+		top := slices.Clone(c)
+		sort.SliceStable(top, func(a, b int) bool { return top[a].Fraction > top[b].Fraction })
+		k := key{top[0].Element, top[1].Element, top[2].Element}
+		sort.Strings(k[:])
+		freq[k]++
+	}
+	keys := make([]key, 0, len(freq))
+	for k := range freq {
+		keys = append(keys, k)
+	}
+	sort.Slice(keys, func(i, j int) bool {
+		if freq[keys[i]] != freq[keys[j]] {
+			return freq[keys[i]] > freq[keys[j]]
+		}
+		return strings.Join(keys[i][:], "") < strings.Join(keys[j][:], "")
+	})
+	if len(keys) > maxSystemTriangles {
+		keys = keys[:maxSystemTriangles]
+	}
+	var out []systemTriangle
+	for _, k := range keys {
+		sum := map[string]float64{}
+		n := 0
+		for i := range samples {
+			var in, all float64
+			for _, ef := range samples[i].Composition {
+				all += ef.Fraction
+				if ef.Element == k[0] || ef.Element == k[1] || ef.Element == k[2] {
+					in += ef.Fraction
+				}
+			}
+			if !(in > 0) || all-in > outside*all+1e-12 {
+				continue
+			}
+			n++
+			for _, ef := range samples[i].Composition {
+				sum[ef.Element] += ef.Fraction / all
+			}
+		}
+		if n == 0 {
+			continue
+		}
+		corners := k
+		sort.SliceStable(corners[:], func(i, j int) bool { return sum[corners[i]] > sum[corners[j]] })
+		out = append(out, systemTriangle{Corners: corners, Samples: n})
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Samples > out[j].Samples })
+	return out
 }
 
 // commonElements returns the n elements with the largest summed fraction
@@ -276,6 +355,8 @@ type compositionMapData struct {
 	title     string
 	triangle  plot.Triangle
 	pooled    int // samples that set the shares of grouped corners
+	// systems are the notebook's alloy systems as ternary maps.
+	systems []systemTriangle
 }
 
 // buildCompositionMap reads the request's settings and places the samples.
@@ -286,7 +367,7 @@ func (s *Server) buildCompositionMap(r *http.Request) (*compositionMapData, erro
 		return nil, err
 	}
 	c, f := s.readControls(r.URL.Query(), samples, true)
-	d := &compositionMapData{Controls: c, Points: []mapPoint{}, Isolines: []plot.Isoline{}}
+	d := &compositionMapData{Controls: c, Points: []mapPoint{}, Isolines: []plot.Isoline{}, systems: systemTriangles(samples, plot.DefaultMaxIgnored)}
 	if len(c.Errors) > 0 {
 		return d, nil
 	}
@@ -442,6 +523,8 @@ func (d *compositionMapData) svg() []byte {
 }
 
 type mapPage struct {
+	// Systems link to the maps of the notebook's alloy systems.
+	Systems  []systemLink
 	Data     *compositionMapData
 	Controls mapControls
 	Schemes  []string
@@ -459,6 +542,14 @@ func (s *Server) schemeNames() []string {
 	return names
 }
 
+// systemLink is one alloy system's map, as the map page offers it.
+type systemLink struct {
+	Name    string
+	Href    string
+	Samples int
+	Current bool
+}
+
 func (s *Server) compositionMap(w http.ResponseWriter, r *http.Request) {
 	d, err := s.buildCompositionMap(r)
 	if err != nil {
@@ -466,6 +557,11 @@ func (s *Server) compositionMap(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	p := mapPage{Data: d, Controls: d.Controls, Schemes: s.schemeNames()}
+	for _, st := range d.systems {
+		q := url.Values{"a": {st.Corners[0]}, "b": {st.Corners[1]}, "c": {st.Corners[2]}}
+		p.Systems = append(p.Systems, systemLink{Name: strings.Join(st.Corners[:], "–"), Href: "/map?" + q.Encode(), Samples: st.Samples,
+			Current: st.Corners == [3]string{d.Controls.A, d.Controls.B, d.Controls.C}})
+	}
 	if len(d.Controls.Errors) > 0 {
 		s.render(w, r, http.StatusBadRequest, "map", "Composition map", p)
 		return

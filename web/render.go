@@ -16,6 +16,8 @@ import (
 	"strings"
 	"sync"
 	"time"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/go-chi/chi/v5"
 
@@ -104,6 +106,7 @@ func loadPages() (*pages, error) {
 		"chance":        chanceText,
 		"phaseLetter":   phaseLetter,
 		"radiationText": radiationText,
+		"sentence":      sentence,
 		"cornerField": func(name, label, value string, errs map[string]string) cornerInput {
 			return cornerInput{Name: name, Label: label, Value: value, Error: errs[name]}
 		},
@@ -308,4 +311,19 @@ func formatParam(kind meltbook.StepKind, p meltbook.Param) string {
 		return strconv.FormatFloat(p.SI, 'f', -1, 64) + " A"
 	}
 	return strconv.FormatFloat(p.SI, 'f', -1, 64)
+}
+
+// sentence starts a message with a capital letter and ends it with a
+// full stop: the store's messages are written to follow a colon.
+func sentence(s string) string {
+	s = strings.TrimSpace(s)
+	if s == "" {
+		return s
+	}
+	r, n := utf8.DecodeRuneInString(s)
+	s = string(unicode.ToUpper(r)) + s[n:]
+	if !strings.HasSuffix(s, ".") && !strings.HasSuffix(s, "?") && !strings.HasSuffix(s, "!") {
+		s += "."
+	}
+	return s
 }

@@ -58,7 +58,7 @@ func TestUploadScan(t *testing.T) {
 	s := newServer(t, st)
 	fs := openForm(t, s, "/runs/"+melt)
 	_, page := get(t, s, "/runs/"+melt)
-	if !strings.Contains(page, `action="/runs/`+melt+`/scans" enctype="multipart/form-data"`) {
+	if !strings.Contains(page, `action="/runs/`+melt+`/scans#s-`+sample+`" enctype="multipart/form-data"`) {
 		t.Fatal("the run page offers no scan upload")
 	}
 	fields := func(kv ...string) map[string]string {
