@@ -26,8 +26,8 @@ func TestMapPageMarkersPerOutcome(t *testing.T) {
 		want  map[string]int
 		note  string
 	}{
-		// Corners by default are the three elements with the largest summed
-		// fractions (Al, Cu, Fe). ZR-3 has 5 at.% Si, which is still allowed;
+		// Corners by default are those of the system whose map draws the
+		// most samples (Al, Cu, Fe), the major element first. ZR-3 has 5 at.% Si, which is still allowed;
 		// ZR-4 (10 at.% B) and ZR-5 (no corner element) are left out.
 		{"defaults", "", map[string]int{"icosahedral": 2, "crystalline": 1, "approximant": 1, "undecided": 2}, "6 of 8 samples shown"},
 		{"as-spun only", "?a=Al&b=Cu&c=Fe&treatment=as-spun", map[string]int{"icosahedral": 2, "approximant": 1, "undecided": 2}, "5 of 8"},

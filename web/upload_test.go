@@ -2,6 +2,7 @@ package web_test
 
 import (
 	"context"
+	"fmt"
 	"net/http"
 	"regexp"
 	"strings"
@@ -131,5 +132,44 @@ func TestUploadIsSizeLimited(t *testing.T) {
 	res, _ := fs.postFile(t, s, "/runs/"+melt+"/scans", map[string]string{"sample": sample, "by": "T. Ingram"}, "upload.xy", sc.Data)
 	if res.StatusCode != http.StatusRequestEntityTooLarge {
 		t.Errorf("a %d-byte scan over a 4096-byte limit: %d, want 413", len(sc.Data), res.StatusCode)
+	}
+}
+
+// TestDemoMapDefaultsToTheLargestSystem opens the map without corners on
+// the demonstration notebook, whose most common elements overall (Al, Zn,
+// Cu) make no system of it: the map shows the system with the most
+// samples instead, and links to the others.
+func TestDemoMapDefaultsToTheLargestSystem(t *testing.T) {
+	st, _, _ := demoStore(t)
+	samples, err := st.MapSamples(context.Background())
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Samples with at most 5 at.% outside Al, Cu and Fe, counted here.
+	n := 0
+	for _, m := range samples {
+		var in, all float64
+		for _, ef := range m.Composition {
+			all += ef.Fraction
+			if ef.Element == "Al" || ef.Element == "Cu" || ef.Element == "Fe" {
+				in += ef.Fraction
+			}
+		}
+		if in > 0 && all-in <= 0.05*all+1e-12 {
+			n++
+		}
+	}
+	s := newServer(t, st)
+	_, body := get(t, s, "/map")
+	if !strings.Contains(body, `value="Al"`) || !strings.Contains(body, `value="Cu"`) || !strings.Contains(body, `value="Fe"`) {
+		t.Error("the default map is not Al-Cu-Fe")
+	}
+	if !strings.Contains(body, fmt.Sprintf("%d of %d samples shown", n, len(samples))) {
+		t.Errorf("the default map does not show the %d Al-Cu-Fe samples", n)
+	}
+	for _, link := range []string{`href="/map?a=Al&amp;b=Pd&amp;c=Mn"`, `href="/map?a=Zn&amp;b=Mg&amp;c=Y"`} {
+		if !strings.Contains(body, link) {
+			t.Errorf("no link %s to another system", link)
+		}
 	}
 }
