@@ -25,3 +25,25 @@ func FuzzMapSettings(f *testing.F) {
 		}
 	})
 }
+
+// FuzzLogForm sends arbitrary values to the log form: the answer is the
+// new melt (303), or the form back with its message (422, or 409 for a
+// code in use), never a fault.
+func FuzzLogForm(f *testing.F) {
+	f.Add("Al63Cu25Fe12", "10 g", "30 um", "30 m/s", "Al=4.29g", "2031-03-02T09:30", "", "ZR")
+	f.Add("Al-25Cu-12Fe", "10", "-3um", "3000 rpm", "Al=,Cu", "yesterday", "ZR-1", "")
+	f.Add("(Al0.7Pd0.2Mn0.1)99B1", "1e400 g", "NaN um", "Inf m/s", "Xx=1g", "2031-13-45", "ZR-0001", "Z R")
+	f.Add("", "", "", "", "", "", "", "")
+	f.Fuzz(func(t *testing.T, comp, mass, thickness, speed, weighed, made, code, prefix string) {
+		s := newServer(t, mapSamples())
+		fs := openForm(t, s, "/log")
+		form := url.Values{"composition": {comp}, "mass": {mass}, "thickness": {thickness}, "wheel-speed": {speed},
+			"weighed": {weighed}, "made": {made}, "code": {code}, "prefix": {prefix}, "operator": {"T. Ingram"}}
+		res, _ := fs.post(t, s, "/log", form)
+		switch res.StatusCode {
+		case http.StatusSeeOther, http.StatusUnprocessableEntity, http.StatusConflict:
+		default:
+			t.Fatalf("%v: status %d", form, res.StatusCode)
+		}
+	})
+}
