@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"unicode/utf8"
 )
 
 // Pattern is a powder diffraction pattern with what analysis made of it.
@@ -233,14 +234,21 @@ func (pp *PatternPlot) SVG() ([]byte, error) {
 	}
 	w.raw(`"/></svg>`)
 
-	// Peak labels and unexplained-peak markers, placed in pixels.
+	// Peak labels and unexplained-peak markers, placed in pixels. A label
+	// that would run into the one before it (closer than labelGap across)
+	// is stacked above it, so that close peaks stay readable at full range.
 	w.raw(`<g class="peak-labels" clip-path="url(#pattern-clip)" font-size="10.5" fill="#1f2933">`)
+	prevX, prevTop := math.Inf(-1), 0.0
 	for i, pk := range peaks {
 		if pk.TwoThetaDeg < t0 || pk.TwoThetaDeg > t1 {
 			continue
 		}
 		x := patternPixel(pk.TwoThetaDeg, t0, t1)
 		y := pixY(heights[i]) - (patternBottom-patternTop)*60/patternUnits - 4
+		if x-prevX < labelGap {
+			y = math.Min(y, prevTop-4)
+		}
+		prevX, prevTop = x, y-labelLength(pk)
 		w.raw(`<g data-t="`)
 		w.num(pk.TwoThetaDeg, tPrec)
 		w.raw(`"`)
@@ -272,6 +280,20 @@ func (pp *PatternPlot) SVG() ([]byte, error) {
 	pp.legend(w, p)
 	w.raw("</svg>")
 	return w.b, nil
+}
+
+// labelGap is the least distance across, in pixels, between two peak
+// labels side by side: a line of 10.5 px text and a little air.
+const labelGap = 12
+
+// labelLength is how far a peak's label reaches up from its foot, in
+// pixels: rotated text at about 6.2 px a character (10.5 px system font),
+// or the unexplained-peak marker with its question mark.
+func labelLength(pk PeakMark) float64 {
+	if !pk.Explained {
+		return 26
+	}
+	return 6.2 * float64(utf8.RuneCountInString(pk.Label))
 }
 
 func patternPixel(t, t0, t1 float64) float64 {

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"compress/gzip"
 	"encoding/xml"
+	"fmt"
 	"io"
 	"math"
 	"math/rand/v2"
@@ -269,6 +270,26 @@ func TestPatternSVG(t *testing.T) {
 			t.Errorf("no %s curve", series)
 		}
 	}
+	// Two labelled peaks 0.1° apart (1.5 px at 60° over 870 px) cannot
+	// stand side by side: the second stands above the first, its foot at
+	// least the first's length ("(18,29)", 7 characters at 6.2 px, 43.4 px)
+	// higher.
+	close := p
+	close.Peaks = []plot.PeakMark{{TwoThetaDeg: 42.9, Label: "(18,29)", Explained: true}, {TwoThetaDeg: 43.0, Label: "(20,32)", Explained: true}}
+	b, err = (&plot.PatternPlot{Pattern: close}).SVG()
+	if err != nil {
+		t.Fatal(err)
+	}
+	feet := []float64{}
+	for _, g := range parseSVG(t, b).find(func(e *element) bool { return e.attrs["data-t"] != "" }) {
+		var x, y float64
+		fmt.Sscanf(g.attrs["transform"], "translate(%g %g)", &x, &y)
+		feet = append(feet, y)
+	}
+	if len(feet) != 2 || feet[0]-feet[1] < 43.4 {
+		t.Errorf("label feet at %v px: the second should stand at least 43.4 px above the first", feet)
+	}
+
 	bad := p
 	bad.Counts = bad.Counts[:10]
 	if _, err := (&plot.PatternPlot{Pattern: bad}).SVG(); err == nil {
