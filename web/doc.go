@@ -1,14 +1,16 @@
 // Package web serves the notebook as local web pages and a JSON API: an
 // overview, the run table (the find command's filters, sortable, paged,
-// CSV), each run, each diffraction scan with a pattern that zooms along 2θ,
-// the composition map on a Gibbs triangle with e/a isolines, and descriptor
-// maps (e/a against δ and against cooling rate).
+// CSV), each run, each diffraction scan with a pattern that zooms along 2θ
+// and its indexed peaks labelled, the composition map on a Gibbs triangle
+// with e/a isolines, descriptor maps (e/a against δ and against cooling
+// rate), and forms to log a melt, correct a value, add a scan, record an
+// outcome, decide a proposal and add a note.
 //
 // # Starting a server
 //
 //	srv, err := web.NewServer(web.Config{
-//		Notebook:     nb,                 // the store, through a small adapter (see Notebook)
-//		Author:       os.Getenv("USER"),  // fills the author of new notes
+//		Notebook:     st,                 // a *store.Store, as it is (see Notebook)
+//		Author:       os.Getenv("USER"),  // fills "by" in fresh forms
 //		Log:          slog.New(slog.NewTextHandler(stderr, nil)),
 //	})
 //	url, err := srv.Listen(addr)          // "" = 127.0.0.1 on a free port
@@ -34,7 +36,14 @@
 // site, and the form must carry the key derived from the browser's form
 // cookie with a secret made at start-up (a signed double submit). A form
 // that fails validation comes back with status 422, the message beside
-// the field at fault, and everything typed kept.
+// the field at fault, and everything typed kept (but a file, which no
+// browser fills in again).
+//
+// The log and amend forms read their values with package runform, as the
+// log and amend commands do, so units, checks and messages are the same. A
+// scan upload (multipart, at most Config.MaxUploadBytes) goes through
+// Config.AddScan, by default the scan intake on the store, and opens the
+// new scan with its proposals.
 //
 // # Errors
 //
@@ -42,7 +51,7 @@
 // keyed by meltbook.KindOf: invalid 400 (422 for a submitted form), not
 // found 404, conflict 409, internal 500, plus the web's own refusals (401
 // without token, 403 for a bad form key or foreign host, 405, 413 for a body
-// over Config.MaxBodyBytes). People get an HTML page, /api/ callers and
+// over Config.MaxBodyBytes or an upload over Config.MaxUploadBytes). People get an HTML page, /api/ callers and
 // requests that accept JSON first get {"error": {...}}. Internal errors are
 // logged in full and shown without detail.
 //
