@@ -6,7 +6,6 @@ import (
 	"math"
 	"net/http"
 	"net/url"
-	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -207,9 +206,21 @@ func systemTriangles(samples []store.MapSample, outside float64) []systemTriangl
 		if len(c) < 3 {
 			continue
 		}
-		top := slices.Clone(c)
-		sort.SliceStable(top, func(a, b int) bool { return top[a].Fraction > top[b].Fraction })
-		k := key{top[0].Element, top[1].Element, top[2].Element}
+		// The three largest fractions, first listed first among equals.
+		var top [3]int
+		for j := range top {
+			top[j] = -1
+		}
+		for j, ef := range c {
+			for r := range top {
+				if top[r] < 0 || ef.Fraction > c[top[r]].Fraction {
+					copy(top[r+1:], top[r:2])
+					top[r] = j
+					break
+				}
+			}
+		}
+		k := key{c[top[0]].Element, c[top[1]].Element, c[top[2]].Element}
 		sort.Strings(k[:])
 		freq[k]++
 	}
