@@ -17,7 +17,7 @@ import (
 //
 //	{
 //	  "format": "meltbook-notebook",
-//	  "version": 1,
+//	  "version": 2,
 //	  "melts": [
 //	    {
 //	      "id": 1, "code": "QX-0001", "operator": "...", "created_at": "RFC 3339",
@@ -38,7 +38,21 @@ import (
 //	          "symmetry": [{"id": 1, "folds": [2, 3, 5], "at": "...", "operator": "..."}],
 //	          "outcomes": [{"id": 1, "kind": "icosahedral", "lattice": "F", "fraction": 0.9,
 //	                        "source": "person", "recorded_by": "...", "evidence": "...",
-//	                        "status": "confirmed", "at": "..."}]
+//	                        "status": "confirmed", "at": "..."}],
+//	          "scans": [{"id": 1, "file_name": "a.xy", "sha256": "...", "format": "xy",
+//	                     "radiation": {"anode": "Cu", "kalpha1_angstrom": 1.5405929, ...},
+//	                     "imported_at": "...", "imported_by": "...",
+//	                     "two_theta_deg": [20, 20.02, ...], "counts": [301, 296, ...],
+//	                     "indexings": [{"id": 1, "version": 1, "at": "...", "by": "...",
+//	                                    "requested_by": "...", "radiation": {...},
+//	                                    "tolerance_deg": 0.1, "max_chance": 0.01,
+//	                                    "peaks": [{"id": 1, "two_theta_deg": 38.47, ...}],
+//	                                    "phases": [{"id": 1, "kind": "cubic", "lattice": "F", ...,
+//	                                                "assignments": [{"peak_id": 1, "label": "111", ...}]}],
+//	                                    "unexplained_peaks": [3],
+//	                                    "models": [{"kind": "cubic", "lattice": "F", ...}],
+//	                                    "proposals": [{"outcome_id": 2, "phase_id": 1,
+//	                                                   "confidence": "medium"}]}]}]
 //	        }
 //	      ],
 //	      "dated_notes": [{"id": 1, "sample": "QX-0001.a1", "author": "...", "at": "...", "text": "..."}]
@@ -57,11 +71,16 @@ import (
 // the units their names give (SI for step parameters, "unit" being the unit
 // the value was entered in); times are RFC 3339 in UTC. e/a and cooling
 // rate are derived, not stored in the document. Omitted fields are empty.
+//
+// Version 2 added the diffraction scans, listed under their sample with
+// their points and every indexing (see DocScan); a proposal's outcome is
+// listed among the sample's outcomes and named by id. A version 1 document
+// (no scans) still imports.
 
 // DocumentFormat and DocumentVersion identify an exported notebook.
 const (
 	DocumentFormat  = "meltbook-notebook"
-	DocumentVersion = 1
+	DocumentVersion = 2
 )
 
 // Document is an exported notebook.
@@ -88,6 +107,7 @@ type DocSample struct {
 	Measurements []DocMeasurement `json:"measurements,omitempty"`
 	Symmetry     []DocObservation `json:"symmetry,omitempty"`
 	Outcomes     []DocOutcome     `json:"outcomes,omitempty"`
+	Scans        []DocScan        `json:"scans,omitempty"`
 }
 
 // DocStep is a process step with its id.
@@ -354,6 +374,9 @@ func (t *txn) export(d *Document) error {
 	if err != nil {
 		return err
 	}
+	if err := t.exportScans(sample); err != nil {
+		return err
+	}
 	err = t.each(`SELECT `+noteColumns+` FROM note n LEFT JOIN sample sa ON sa.id = n.sample_id ORDER BY n.id`, func(rows *sql.Rows) error {
 		n, err := scanNote(rows)
 		if err != nil {
@@ -506,14 +529,15 @@ func (s idSet) add(kind string, id int64) error {
 // checkDocument validates the whole document before anything is written.
 func checkDocument(d *Document) error {
 	ids := map[string]idSet{}
-	for _, k := range []string{"melt", "sample", "step", "measurement", "observation", "outcome", "note", "history"} {
+	for _, k := range []string{"melt", "sample", "step", "measurement", "observation", "outcome", "note", "history",
+		"scan", "indexing", "peak", "phase", "proposal"} {
 		ids[k] = idSet{}
 	}
 	codes := map[string]bool{}
 	for i := range d.Melts {
 		dm := &d.Melts[i]
 		place := fmt.Sprintf("melts[%d]", i)
-		if err := checkDocMelt(dm, ids, codes); err != nil {
+		if err := checkDocMelt(dm, d.Version, ids, codes); err != nil {
 			return at(place, err)
 		}
 	}
@@ -541,7 +565,7 @@ func meltCodeIn(d *Document, code string) bool {
 	return false
 }
 
-func checkDocMelt(dm *DocMelt, ids map[string]idSet, codes map[string]bool) error {
+func checkDocMelt(dm *DocMelt, version int, ids map[string]idSet, codes map[string]bool) error {
 	if err := ids["melt"].add("melt", dm.ID); err != nil {
 		return err
 	}
@@ -626,6 +650,9 @@ func checkDocMelt(dm *DocMelt, ids map[string]idSet, codes map[string]bool) erro
 				return at(oPlace, meltbook.Errorf(invalid, "status", "%q is not proposed, confirmed or rejected", o.Status))
 			}
 		}
+		if err := checkDocScans(ds, version, ids); err != nil {
+			return at(place, err)
+		}
 	}
 	for k := range dm.DatedNotes {
 		n := &dm.DatedNotes[k]
@@ -696,6 +723,11 @@ func (t *txn) importMelt(dm *DocMelt) error {
 			o.ID = ds.Outcomes[k].ID
 			if err := t.insertOutcome(m.ID, &sa, &o); err != nil {
 				return at(fmt.Sprintf("samples[%d].outcomes[%d]", j, k), err)
+			}
+		}
+		for k := range ds.Scans {
+			if err := t.importScan(sa.ID, &ds.Scans[k]); err != nil {
+				return at(fmt.Sprintf("samples[%d].scans[%d]", j, k), err)
 			}
 		}
 	}
