@@ -33,6 +33,13 @@ const (
 	// with a_R = 6.1 Å needs 11.0; Mo Kα to 60° at 6.1 Å needs 12.2).
 	maxFamilyParallel = 13.0
 	maxFamilyPerp     = 0.8
+	// Unobserved-line penalty of the general cubic search (see
+	// missingPenalty): the lowest missingLines allowed lines from d =
+	// missingReach·d(first peak) up to the last peak are checked, and each
+	// one no peak lies on costs missingCost nats.
+	missingLines = 8
+	missingReach = 1.5
+	missingCost  = 1.0
 )
 
 // line is one allowed powder line of a model, at q = g/scale.
@@ -238,7 +245,8 @@ func (m *model) match(pp *preparedPeak, a float64) (idx int, resid, p float64) {
 	return idx, resid, p
 }
 
-// score returns S = Σ −ln p over the peaks indexed at scale a.
+// score returns S = Σ −ln p over the peaks indexed at scale a, less the
+// unobserved-line penalty, at least 0.
 func (m *model) score(prep []preparedPeak, a float64) float64 {
 	prod := 1.0
 	for i := range prep {
@@ -246,7 +254,48 @@ func (m *model) score(prep []preparedPeak, a float64) float64 {
 			prod *= p
 		}
 	}
-	return -math.Log(prod)
+	return math.Max(-math.Log(prod)-m.missingPenalty(prep, a), 0)
+}
+
+// missingPenalty is the cost, in nats, of the allowed lines a general cubic
+// solution at scale a puts where no peak lies:
+//
+//	U = missingCost · #{ the lowest missingLines allowed lines with
+//	    q_first/missingReach ≤ q ≤ q_last + tolerance that have no peak
+//	    within the tolerance }
+//
+// with q = 1/d and q_first, q_last those of the lowest- and highest-angle
+// peaks (prep sorted by 2θ). The lowest lines of a small cubic cell are its
+// strong ones, and a lattice or cell that predicts them where nothing is seen
+// is the worse explanation: this is what tells a primitive cell from the
+// body- or face-centred cell of the same constant, and a cell from its
+// doubled or √2 multiples, where the sparse lines otherwise score alike.
+// Lines down to d = missingReach·d(first peak) count because a scan
+// normally starts well below its first peak. Approximants and icosahedral
+// models carry no penalty: their intensity gathers near the strong
+// icosahedral families and most low-angle lines are weak by nature. The
+// random lists of the chance calibration are scored the same way.
+//
+// Reference: common practice (the absence of predicted low-angle lines
+// rules out a cell; de Wolff's M20 weighs the calculated lines up to the
+// last observed one).
+func (m *model) missingPenalty(prep []preparedPeak, a float64) float64 {
+	if m.kind != Cubic || len(prep) == 0 {
+		return 0
+	}
+	first, last := &prep[0], &prep[len(prep)-1]
+	gHi := last.qHi * a
+	missing := 0
+	j := m.firstAtLeast(first.q / missingReach * a)
+	for n := 0; n < missingLines && j < len(m.gs) && m.gs[j] <= gHi; n, j = n+1, j+1 {
+		q := m.gs[j] / a
+		// First peak whose upper tolerance edge reaches q.
+		k := sort.Search(len(prep), func(i int) bool { return prep[i].qHi >= q })
+		if k == len(prep) || prep[k].qLo > q {
+			missing++
+		}
+	}
+	return missingCost * float64(missing)
 }
 
 // hits reports whether some line lies within tolerance of the peak at

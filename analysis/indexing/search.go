@@ -83,15 +83,49 @@ func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) 
 	for i := range uniq {
 		uniq[i].s = m.score(prep, uniq[i].a)
 	}
-	sort.Slice(uniq, func(i, j int) bool { return uniq[i].s > uniq[j].s })
+	// Equal scores keep the smaller scale first.
+	sort.SliceStable(uniq, func(i, j int) bool { return uniq[i].s > uniq[j].s })
 	best.score = -1
+	var good []solution
 	for _, c := range uniq[:min(len(uniq), refineCount)] {
-		sol, good := m.refine(peaks, c.a, cfg)
-		if good && sol.score > best.score {
+		sol, ok := m.refine(peaks, c.a, cfg)
+		if !ok {
+			continue
+		}
+		good = append(good, sol)
+		if sol.score > best.score {
 			best = sol
 		}
 	}
+	// The smallest cell whose constant is a √n sub-multiple of the best
+	// one's and that indexes as many peaks is preferred.
+	for _, s := range good {
+		if s.a < best.a && subCell(s.a, best.a) && s.indexed >= best.indexed {
+			best = s
+		}
+	}
 	return best, best.score >= 0
+}
+
+// Sub-cell relation: a cubic cell of constant a indexes every line of the
+// cell of constant √n·a (n = 2 … maxSubCellN), whose lines with
+// h² + k² + l² = n·S stand where the small cell's S lines stand.
+const (
+	maxSubCellN  = 16
+	subCellSlack = 0.002 // relative tolerance on the constant ratio
+)
+
+// subCell reports whether large/small is √n within subCellSlack for an
+// integer n in [2, maxSubCellN].
+//
+//	large/small = √n,  n = 2, 3, 4, … (k = √2, √3, 2, √5, …, 4)
+//
+// Reference: common practice (a cubic supercell of an index n makes the
+// same lines plus more).
+func subCell(small, large float64) bool {
+	r := large / small
+	n := math.Round(r * r)
+	return n >= 2 && n <= maxSubCellN && math.Abs(r/math.Sqrt(n)-1) <= subCellSlack
 }
 
 // refine iterates matching and least squares from scale a with no zero shift.
@@ -139,6 +173,7 @@ func (m *model) assign(prep []preparedPeak, a, z float64) solution {
 			sol.score -= math.Log(p)
 		}
 	}
+	sol.score = math.Max(sol.score-m.missingPenalty(prep, a), 0)
 	return sol
 }
 
