@@ -36,6 +36,20 @@
 // sparseness of the model, so a dense model (large cubic cell, large
 // perpendicular-space cut-off) earns little for a hit.
 //
+// A general cubic solution also pays for lines it predicts where nothing is
+// seen: of its eight lowest allowed lines from d = 1.5·d(first peak) up to
+// the last peak, each with no peak within the tolerance costs 1 nat, and S
+// is kept at 0 or above. This tells P from I and F of the same constant
+// and a cell from its √2, √3 or doubled multiples, which sparse lines
+// otherwise score alike; approximant and icosahedral models carry no such
+// cost. The random lists of the chance calibration are scored the same way.
+//
+// Among solutions whose constants differ by a factor √n (n = 2 … 16), the
+// smaller cell is taken when it indexes at least as many peaks, within a
+// model's search and between the cubic models; an approximant whose
+// constant is 2, 3 or 4 times that of a significant cubic solution
+// indexing its three strongest peaks gives way to that solution.
+//
 // # Chance
 //
 // Because the set of icosahedral line positions is dense and every search

@@ -116,6 +116,9 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 				best = i
 			}
 		}
+		if best >= 0 {
+			best = preferSubCell(all, best, remaining, cfg, opts.MaxChance)
+		}
 		if round == 0 {
 			for _, s := range all {
 				res.Models = append(res.Models, summary(s.m, s.sol, s.chance))
@@ -145,6 +148,71 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 		return res.Phases[i].ExplainedIntensity > res.Phases[j].ExplainedIntensity
 	})
 	return res
+}
+
+// preferSubCell returns the solution to take instead of all[best]: the
+// significant cubic solution with the smallest constant a such that
+// all[best].a = √n·a (see subCell) and that indexes at least as many
+// peaks, or, when all[best] is an approximant and a = all[best].a/k with
+// k = 2, 3 or 4, that indexes its strongPeaks strongest peaks. (The √n
+// multiples with n not a square are left out of the approximant rule: a
+// body-centred cell a and the primitive cell a/√2 make nearly the same
+// lines, so a real I approximant would lose to a P sub-cell indexing
+// fewer of its peaks.) A cell whose lines the smaller cell already
+// makes is the larger explanation of the same peaks, and an approximant
+// that is a supercell of a plain cubic phase owes its strong lines to that
+// phase. Chances are computed where still missing.
+func preferSubCell(all []scored, best int, peaks []Peak, cfg searchConfig, maxChance float64) int {
+	x := all[best]
+	if x.m.kind == Icosahedral {
+		return best
+	}
+	strong := strongest(peaks, x.sol.assign)
+	for i := range all {
+		y := &all[i]
+		if y.m.kind == Icosahedral || y.sol.indexed < minIndexed(y.m.kind) || !(y.sol.a < all[best].sol.a) || !subCell(y.sol.a, x.sol.a) {
+			continue
+		}
+		same := y.sol.indexed >= x.sol.indexed
+		if !same && x.m.kind == Approximant && y.m.kind == Cubic && integerMultiple(y.sol.a, x.sol.a) {
+			same = true
+			for _, k := range strong {
+				same = same && y.sol.assign[k] >= 0
+			}
+		}
+		if !same {
+			continue
+		}
+		if y.basis == "" {
+			perModel := 1 - math.Pow(1-maxChance, 1/float64(y.m.latticesOfKind()))
+			c, basis := chance(y.m, peaks, cfg, y.sol.score, perModel, true)
+			y.chance, y.basis = sidak(c, y.m.latticesOfKind()), basis
+		}
+		if y.chance <= maxChance {
+			best = i
+		}
+	}
+	return best
+}
+
+// integerMultiple reports whether large/small is 2, 3 or 4 within
+// subCellSlack.
+func integerMultiple(small, large float64) bool {
+	r := large / small
+	k := math.Round(r)
+	return k >= 2 && k <= 4 && math.Abs(r/k-1) <= subCellSlack
+}
+
+// strongest returns the indices of the strongPeaks strongest assigned peaks.
+func strongest(peaks []Peak, assign []int) []int {
+	var idx []int
+	for i, j := range assign {
+		if j >= 0 {
+			idx = append(idx, i)
+		}
+	}
+	sort.SliceStable(idx, func(i, j int) bool { return peaks[idx[i]].Intensity > peaks[idx[j]].Intensity })
+	return idx[:min(len(idx), strongPeaks)]
 }
 
 // better orders significant solutions: higher figure of merit first; an
