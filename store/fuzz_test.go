@@ -25,6 +25,15 @@ func FuzzImport(f *testing.F) {
 	f.Add([]byte(`{"format":"meltbook-notebook","version":1,"melts":[{"id":1}]}`))
 	f.Add([]byte(`[]`))
 	ctx := context.Background()
+	withScan := MustOpen(f)
+	if err := withScan.CreateMelt(ctx, "Ines Marlow", newMelt("QX-0001")); err != nil {
+		f.Fatal(err)
+	}
+	if _, err := withScan.AddScan(ctx, "Ines Marlow", store.NewScan{Scan: newScan("QX-0001", "x.xy"), Indexing: newIndexing(),
+		Proposals: []store.Proposal{crystallineProposal()}}); err != nil {
+		f.Fatal(err)
+	}
+	f.Add(export(f, withScan))
 	dir := f.TempDir()
 	notebooks := 0
 	fresh := func(tb testing.TB) *store.Store {
