@@ -8,11 +8,13 @@ import (
 )
 
 // TestExportRestoreRoundTrip exports a notebook holding every kind of
-// record and its history, restores it into a new notebook and exports
-// that: the two documents must be identical.
+// record and its history, a scan indexed twice included, restores it into
+// a new notebook and exports that: the two documents must be identical.
 func TestExportRestoreRoundTrip(t *testing.T) {
 	nb := buildWorkflow(t)
 	nb.ok("amend", "outcome:1", "fraction=85%", "--reason", "second look")
+	nb.ok("scan", "add", "QX-0001.a1", alScan(t, t.TempDir(), "QX-0001.a1_al.xy", 3))
+	nb.ok("scan", "reindex", "1", "--reason", "narrower tolerance", "--tolerance", "0.08")
 	first := filepath.Join(t.TempDir(), "notebook.json")
 	if out := nb.ok("export", first); out != "" {
 		t.Errorf("export to a file printed %q", out)
@@ -37,9 +39,12 @@ func TestExportRestoreRoundTrip(t *testing.T) {
 	if again != string(data) {
 		t.Errorf("the restored notebook exports differently:\n--- first\n%s\n--- again\n%s", data, again)
 	}
-	// The copy shows the same melt, history included.
+	// The copy shows the same melt and scan, history included.
 	if a, b := nb.ok("show", "QX-0001"), nb.ok("--notebook", copyPath, "show", "QX-0001"); a != b {
 		t.Errorf("show differs after the round trip:\n%s\n---\n%s", a, b)
+	}
+	if a, b := nb.ok("scan", "show", "1"), nb.ok("--notebook", copyPath, "scan", "show", "1"); a != b || !strings.Contains(a, "narrower tolerance") {
+		t.Errorf("scan show differs after the round trip:\n%s\n---\n%s", a, b)
 	}
 
 	// Export never overwrites a file.
