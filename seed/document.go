@@ -22,7 +22,7 @@ func (nb *Notebook) Document() (*store.Document, error) {
 	create := func(melt, entity string, id int64, at time.Time, who string, v any) error {
 		b, err := json.Marshal(v)
 		if err != nil {
-			return fmt.Errorf("seed document: %s %d: %w", entity, id, err)
+			return fmt.Errorf("demo notebook: %s %d: %w", entity, id, err)
 		}
 		history = append(history, store.DocHistory{HistoryEntry: meltbook.HistoryEntry{
 			At: at, Who: who, MeltCode: melt, Entity: entity, EntityID: id, Action: "create", After: string(b)}})

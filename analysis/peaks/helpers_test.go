@@ -15,7 +15,7 @@ type truePeak struct {
 	center, area, fwhm, eta float64
 }
 
-// pv is an independent transcription of the pseudo-Voigt used to build
+// pv is an independent restatement of the pseudo-Voigt used to build
 // synthetic scans (area-normalised Lorentzian and Gaussian with common
 // FWHM, mixed by eta; common practice).
 func pv(x float64, p truePeak) float64 {
