@@ -31,8 +31,9 @@ const demoDefaultSeed = 1
 // demoFileName is the demo notebook's name in the user's cache folder.
 const demoFileName = "meltbook-demo.db"
 
-// demoSuggestions is how many compositions the demo proposes per system.
-const demoSuggestions = 3
+// demoBestBets is how many best bets the demo proposes per system, before
+// one composition to explore.
+const demoBestBets = 2
 
 type demoFlags struct {
 	seed    uint64
@@ -259,13 +260,17 @@ func writeDemoNext(w io.Writer, d *demoNotebook) error {
 		return errors.New("the raynor valence scheme is missing")
 	}
 	fmt.Fprintln(w, "WHAT TO TRY NEXT")
-	fmt.Fprintln(w, "Compositions ranked by estimated chance of an icosahedral phase plus its uncertainty,")
-	fmt.Fprintln(w, "from each system's own examined samples (tentative results count half).")
-	opts := suggest.DefaultOptions()
-	opts.Count = demoSuggestions
+	fmt.Fprintln(w, "Per system, from its own examined samples (tentative results count half): the best bets,")
+	fmt.Fprintln(w, "ranked by estimated chance of an icosahedral phase, then one to explore, ranked by that")
+	fmt.Fprintln(w, "chance plus its uncertainty, where the notebook knows least.")
+	best := suggest.DefaultOptions()
+	best.Exploration = 0
+	best.Count = demoBestBets
+	explore := suggest.DefaultOptions()
+	explore.Count = demoBestBets + 1
 	for _, s := range d.systems {
 		fmt.Fprintf(w, "\n%s: %d melts, %d samples examined", s.Name, len(s.Melts), s.Examined)
-		res, win, err := s.Next(scheme, opts)
+		bets, win, err := s.Next(scheme, best)
 		switch {
 		case errors.Is(err, campaign.ErrTooFew):
 			fmt.Fprintf(w, "; too few to suggest from\n")
@@ -280,8 +285,21 @@ func writeDemoNext(w io.Writer, d *demoNotebook) error {
 			_, _, why := s.Window(scheme)
 			fmt.Fprintf(w, "; no e/a limit: %s\n", why)
 		}
-		for i, sg := range res.Suggestions {
-			fmt.Fprintf(w, "  %d. %s  %s\n", i+1, demoFormula(sg.Composition), sg.Reason)
+		listed := map[string]bool{}
+		for i, sg := range bets.Suggestions {
+			f := demoFormula(sg.Composition)
+			listed[f] = true
+			fmt.Fprintf(w, "  best bet %d. %s  %s\n", i+1, f, sg.Reason)
+		}
+		wide, _, err := s.Next(scheme, explore)
+		if err != nil {
+			return err
+		}
+		for _, sg := range wide.Suggestions {
+			if f := demoFormula(sg.Composition); !listed[f] {
+				fmt.Fprintf(w, "  to explore: %s  %s\n", f, sg.Reason)
+				break
+			}
 		}
 	}
 	writeDemoCautions(w, d.systems)

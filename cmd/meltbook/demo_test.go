@@ -82,12 +82,12 @@ func TestDemoSummaryAndSuggestions(t *testing.T) {
 			continue
 		}
 		block := out[i:]
-		for _, n := range []string{"  1. ", "  2. ", "  3. "} {
+		for _, n := range []string{"  best bet 1. ", "  best bet 2. ", "  to explore: "} {
 			if !strings.Contains(block, n) {
 				t.Errorf("%s: suggestion %q missing", system, strings.TrimSpace(n))
 			}
 		}
-		if !strings.Contains(block[:strings.Index(block, "  1. ")], "e/a kept within") {
+		if j := strings.Index(block, "  best bet 1. "); j < 0 || !strings.Contains(block[:j], "e/a kept within") {
 			t.Errorf("%s: suggestions not held to the family's e/a window", system)
 		}
 	}
