@@ -66,6 +66,7 @@ var elementNotes = map[string]note{
 	"As": {Toxic, "Arsenic: sublimes near 615 °C and is carcinogenic; melt only in a sealed vessel."},
 	"Tl": {Toxic, "Thallium: highly toxic and absorbed through the skin; double gloves."},
 	"Pb": {Toxic, "Lead: fume and dust are toxic; follow the laboratory's lead-handling rules."},
+	"Zn": {Toxic, "Zinc: boils near 907 °C, below many melt temperatures, and its oxide fume causes metal fume fever; melt under extraction and let the fume settle before opening the chamber."},
 	"Li": {ReadilyBurning, "Lithium: reacts with water (giving hydrogen) and with nitrogen; handle in argon, not in air or a nitrogen glovebox."},
 	"Mg": {ReadilyBurning, "Magnesium: burning magnesium reacts violently with water and CO2."},
 	"Ca": {ReadilyBurning, "Calcium: reacts with water giving hydrogen; keep pieces dry."},

@@ -124,6 +124,22 @@ func ExampleCautions() {
 	}
 	// Output:
 	// readily-burning [Mg Y]
+	// toxic [Zn]
 	// readily-burning [Mg]
 	// local-rules []
+}
+
+func TestZincFumeNote(t *testing.T) {
+	// Zinc boils at 907 °C (CRC Handbook, from memory) and its oxide fume
+	// causes metal fume fever (common practice in foundry safety): a Zn-Mg-Y
+	// weigh-out must say so, although Zn is in no hazard class of its own.
+	var note string
+	for _, c := range hazard.Cautions([]string{"Zn", "Mg", "Y"}) {
+		if slices.Equal(c.Elements, []string{"Zn"}) {
+			note = c.Text
+		}
+	}
+	if !strings.Contains(note, "907 °C") || !strings.Contains(note, "metal fume fever") {
+		t.Errorf("zinc note %q lacks the boiling point or the fume warning", note)
+	}
 }
