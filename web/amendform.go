@@ -9,8 +9,6 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/go-chi/chi/v5"
-
 	"meltbook"
 	"meltbook/store/runform"
 )
@@ -76,13 +74,8 @@ func amendFieldNames() []string {
 // amend corrects one value; a form that does not hold up comes back with
 // what was typed and the message beside its field.
 func (s *Server) amend(w http.ResponseWriter, r *http.Request) {
-	if err := r.ParseForm(); err != nil {
-		s.fail(w, r, bodyError(err))
-		return
-	}
-	p, err := s.loadRun(r, chi.URLParam(r, "code"))
-	if err != nil {
-		s.fail(w, r, err)
+	p, ok := s.postedRun(w, r)
+	if !ok {
 		return
 	}
 	pf := r.PostForm
@@ -98,7 +91,7 @@ func (s *Server) amend(w http.ResponseWriter, r *http.Request) {
 		form.Errors["by"] = "Say who makes the correction."
 	}
 	if len(form.Errors) == 0 {
-		err = s.amendOne(r, p.Run, form)
+		err := s.amendOne(r, p.Run, form)
 		if err == nil {
 			http.Redirect(w, r, "/runs/"+url.PathEscape(p.Run.Melt.Code)+"#history", http.StatusSeeOther)
 			return

@@ -327,6 +327,21 @@ type noteForm struct {
 
 // loadRun reads a melt's record and scans; code may name the melt or one
 // of its samples, in which case focus is that sample.
+// postedRun parses a form posted to a run's page and loads the run; on
+// failure it has answered the request and returns false.
+func (s *Server) postedRun(w http.ResponseWriter, r *http.Request) (runPage, bool) {
+	if err := r.ParseForm(); err != nil {
+		s.fail(w, r, bodyError(err))
+		return runPage{}, false
+	}
+	p, err := s.loadRun(r, chi.URLParam(r, "code"))
+	if err != nil {
+		s.fail(w, r, err)
+		return runPage{}, false
+	}
+	return p, true
+}
+
 func (s *Server) loadRun(r *http.Request, code string) (p runPage, err error) {
 	rec, err := s.nb.MeltRecord(r.Context(), code)
 	if kindOf(err) == meltbook.NotFound {
@@ -382,13 +397,8 @@ func (s *Server) run(w http.ResponseWriter, r *http.Request) {
 const MaxNoteRunes = 20000
 
 func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
-	if err := r.ParseForm(); err != nil {
-		s.fail(w, r, bodyError(err))
-		return
-	}
-	p, err := s.loadRun(r, chi.URLParam(r, "code"))
-	if err != nil {
-		s.fail(w, r, err)
+	p, ok := s.postedRun(w, r)
+	if !ok {
 		return
 	}
 	melt := p.Run.Melt.Code
@@ -419,7 +429,7 @@ func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
 		target = form.Sample
 	}
 	if len(form.Errors) == 0 {
-		_, err = s.nb.AddNote(r.Context(), form.Author, target, strings.TrimSpace(form.Text))
+		_, err := s.nb.AddNote(r.Context(), form.Author, target, strings.TrimSpace(form.Text))
 		if err == nil {
 			http.Redirect(w, r, "/runs/"+url.PathEscape(melt)+"#notes", http.StatusSeeOther)
 			return
@@ -447,13 +457,8 @@ func (s *Server) addNote(w http.ResponseWriter, r *http.Request) {
 
 // addOutcome records a person's outcome on one of the run's samples.
 func (s *Server) addOutcome(w http.ResponseWriter, r *http.Request) {
-	if err := r.ParseForm(); err != nil {
-		s.fail(w, r, bodyError(err))
-		return
-	}
-	p, err := s.loadRun(r, chi.URLParam(r, "code"))
-	if err != nil {
-		s.fail(w, r, err)
+	p, ok := s.postedRun(w, r)
+	if !ok {
 		return
 	}
 	melt := p.Run.Melt.Code
@@ -478,6 +483,7 @@ func (s *Server) addOutcome(w http.ResponseWriter, r *http.Request) {
 			o.Fraction = &f
 		}
 	}
+	var err error
 	if len(form.Errors) == 0 {
 		err = o.Validate()
 		if err == nil {
@@ -511,13 +517,8 @@ func (s *Server) addOutcome(w http.ResponseWriter, r *http.Request) {
 // decideProposal confirms or rejects an automatic proposal on one of the
 // run's samples.
 func (s *Server) decideProposal(w http.ResponseWriter, r *http.Request) {
-	if err := r.ParseForm(); err != nil {
-		s.fail(w, r, bodyError(err))
-		return
-	}
-	p, err := s.loadRun(r, chi.URLParam(r, "code"))
-	if err != nil {
-		s.fail(w, r, err)
+	p, ok := s.postedRun(w, r)
+	if !ok {
 		return
 	}
 	id, err := strconv.ParseInt(chi.URLParam(r, "id"), 10, 64)
