@@ -1,6 +1,10 @@
 package crystal
 
-import "math"
+import (
+	"math"
+
+	"meltbook"
+)
 
 // Operation is a space-group operation on fractional coordinates,
 //
@@ -51,4 +55,46 @@ func Wrap(x [3]float64) [3]float64 {
 		}
 	}
 	return x
+}
+
+// CheckGroup reports whether the operations form a group modulo lattice
+// translations: the identity is among them and the product of any two,
+//
+//	(Ra, ta)·(Rb, tb) = (Ra·Rb, Ra·tb + ta)
+//
+// equals one of them up to a whole-cell translation (tolerance 10⁻⁴ in
+// each translation component). Repeated operations are refused too.
+//
+// Reference: International Tables for Crystallography Vol. A, 1.2.2.
+func (g SpaceGroup) CheckGroup() error {
+	const tol = 1e-4
+	find := func(op Operation) int {
+		for i, o := range g.Ops {
+			if o.EqualModLattice(op, tol) {
+				return i
+			}
+		}
+		return -1
+	}
+	if len(g.Ops) == 0 {
+		return meltbook.Errorf(meltbook.Invalid, "symmetry operations", "there are none; give at least x,y,z")
+	}
+	if find(Identity) < 0 {
+		return meltbook.Errorf(meltbook.Invalid, "symmetry operations", "the identity x,y,z is not among the %d operations", len(g.Ops))
+	}
+	for i, a := range g.Ops {
+		for j := 0; j < i; j++ {
+			if a.EqualModLattice(g.Ops[j], tol) {
+				return meltbook.Errorf(meltbook.Invalid, "symmetry operations", "%s is given twice (operations %d and %d)", a, j+1, i+1)
+			}
+		}
+	}
+	for _, a := range g.Ops {
+		for _, b := range g.Ops {
+			if c := a.Compose(b); find(c) < 0 {
+				return meltbook.Errorf(meltbook.Invalid, "symmetry operations", "do not form a group: %s followed by %s gives %s, which is not among them", b, a, c.Normalised())
+			}
+		}
+	}
+	return nil
 }
