@@ -1,7 +1,7 @@
-// Package indexing indexes a powder diffraction peak list against three
-// kinds of model: icosahedral quasicrystals (P, F, I), cubic crystals
-// (P, I, F) and cubic approximants of icosahedral phases (orders 1/1, 2/1,
-// 3/2). It fits the lattice or quasilattice constant and a zero shift by
+// Package indexing indexes a powder diffraction peak list against
+// icosahedral quasicrystals (P, F, I), cubic crystals (P, I, F), cubic
+// approximants of icosahedral phases (orders 1/1, 2/1, 3/2) and phases of
+// known structure (search-match). It fits the lattice or quasilattice constant and a zero shift by
 // least squares, labels every peak, separates mixtures phase by phase and
 // says, for each phase, how likely a fit that good would be by chance.
 //
@@ -49,6 +49,38 @@
 // model's search and between the cubic models; an approximant whose
 // constant is 2, 3 or 4 times that of a significant cubic solution
 // indexing its three strongest peaks gives way to that solution.
+//
+// # Search-match against phases of known structure
+//
+// Options.Library offers phases of known structure with their computed
+// lines. Each is a model of its own whose scale is the ratio of the cell
+// to the published one, within ±2 % (solid solution), beside the zero
+// shift. Lines carry their predicted intensity w and peaks their observed
+// one o, both with the Lorentz–polarisation factor removed and relative to
+// the strongest: a line may explain a peak only when w ≥ 0.05·o, the
+// strongest such line within the tolerance explains it, and the line
+// density ρ of the figure of merit counts only the lines eligible for the
+// peak, so a strong peak on a strong predicted line earns much. Each
+// predicted line with w ≥ 0.15, inside the range of the scan's peaks, with
+// no peak of the scan (those other phases took included) within the
+// tolerance costs 3·w nats. The chance is calibrated like every other
+// model's and corrected for the number of library phases tried.
+//
+// # Model choice
+//
+// Among the solutions of all models, the one with the highest
+//
+//	C = S − ln K − Σⱼ ln(Δⱼ / σ₀ⱼ)
+//
+// is taken first when it is significant: K is the number of models of its
+// kind tried, Δⱼ the width of the search range of fitted constant j and
+// σ₀ⱼ the uncertainty a residual of r₀ on every indexed peak would give it.
+// The sum is the Occam factor: a constant free over a wide range (a cubic
+// cell of 2.5–16 Å) pays more than one known in advance to ±2 % (a library
+// phase), and every free constant pays. C is reported as Evidence.
+//
+// Reference: D. J. C. MacKay, Information Theory, Inference, and Learning
+// Algorithms, Cambridge University Press (2003), ch. 28.
 //
 // # Chance
 //

@@ -50,6 +50,9 @@ type Options struct {
 	// ApproximantOrders are the approximant orders sought. Default
 	// DefaultOrders (1/1 and 2/1).
 	ApproximantOrders []Order
+	// Library holds the phases of known structure to search-match, with
+	// their lines computed at the scan's wavelength. Default none.
+	Library []KnownPhase
 }
 
 func (o Options) withDefaults() Options {
@@ -103,6 +106,11 @@ func (o Options) validate() error {
 			return meltbook.Errorf(meltbook.Invalid, fmt.Sprintf("approximant order %d", i+1), "%d/%d is not one of 1/1, 2/1, 3/2", ord.P, ord.Q)
 		}
 	}
+	for i, k := range o.Library {
+		if err := k.validate(i); err != nil {
+			return err
+		}
+	}
 	for i, r := range o.References {
 		if !(r.QuasilatticeConstantA >= minQuasilatticeA && r.QuasilatticeConstantA <= maxQuasilatticeA) {
 			return meltbook.Errorf(meltbook.Invalid, fmt.Sprintf("reference %d (%s)", i+1, r.Name),
@@ -126,23 +134,48 @@ type Result struct {
 
 // Phase is one indexed phase.
 type Phase struct {
+	// Kind is the model (icosahedral, approximant) or the crystal system
+	// (cubic, tetragonal, hexagonal, orthorhombic, monoclinic, triclinic,
+	// rhombohedral).
 	Kind    Kind   `json:"kind"`
-	Lattice string `json:"lattice"` // "P", "I" or "F"
+	Lattice string `json:"lattice"` // centring: P, I, F, A, B, C or R
+	// Phase is the library phase's name (search-match), empty otherwise.
+	Phase      string `json:"phase,omitempty"`
+	Formula    string `json:"formula,omitempty"`
+	SpaceGroup string `json:"space_group,omitempty"` // Hermann–Mauguin symbol
+	Reference  string `json:"reference,omitempty"`   // the published structure
 	// QuasilatticeConstantA is a_R = a6/√2 in Å (icosahedral phases).
 	QuasilatticeConstantA            float64 `json:"quasilattice_constant_A,omitempty"`
 	QuasilatticeConstantUncertaintyA float64 `json:"quasilattice_constant_uncertainty_A,omitempty"`
 	// SixDimensionalConstantA is a6 in Å (icosahedral phases), P setting.
 	SixDimensionalConstantA float64 `json:"a6_A,omitempty"`
 	// AA is the cubic lattice constant a in Å (cubic phases and approximants).
-	AA                      float64 `json:"a_A,omitempty"`
-	AUncertaintyA           float64 `json:"a_uncertainty_A,omitempty"`
-	Order                   string  `json:"order,omitempty"` // approximant order p/q, e.g. "1/1"
-	ApproximantOf           string  `json:"approximant_of,omitempty"`
-	IdealAA                 float64 `json:"ideal_a_A,omitempty"` // 2·a_R·(q+pτ)/√(2+τ) of the reference
-	ZeroShiftDeg            float64 `json:"zero_shift_deg"`      // 2θobs = 2θcalc + zero shift
+	AA            float64 `json:"a_A,omitempty"`
+	AUncertaintyA float64 `json:"a_uncertainty_A,omitempty"`
+	Order         string  `json:"order,omitempty"` // approximant order p/q, e.g. "1/1"
+	ApproximantOf string  `json:"approximant_of,omitempty"`
+	IdealAA       float64 `json:"ideal_a_A,omitempty"` // 2·a_R·(q+pτ)/√(2+τ) of the reference
+	// The other cell constants, where the crystal system leaves them free
+	// or fixes them at other than a and 90°.
+	BA                  float64 `json:"b_A,omitempty"`
+	BUncertaintyA       float64 `json:"b_uncertainty_A,omitempty"`
+	CA                  float64 `json:"c_A,omitempty"`
+	CUncertaintyA       float64 `json:"c_uncertainty_A,omitempty"`
+	AlphaDeg            float64 `json:"alpha_deg,omitempty"`
+	AlphaUncertaintyDeg float64 `json:"alpha_uncertainty_deg,omitempty"`
+	BetaDeg             float64 `json:"beta_deg,omitempty"`
+	BetaUncertaintyDeg  float64 `json:"beta_uncertainty_deg,omitempty"`
+	GammaDeg            float64 `json:"gamma_deg,omitempty"`
+	GammaUncertaintyDeg float64 `json:"gamma_uncertainty_deg,omitempty"`
+	// CellScale is the fitted cell over the published one (library phases).
+	CellScale               float64 `json:"cell_scale,omitempty"`
+	ZeroShiftDeg            float64 `json:"zero_shift_deg"` // 2θobs = 2θcalc + zero shift
 	ZeroShiftUncertaintyDeg float64 `json:"zero_shift_uncertainty_deg"`
 	// FigureOfMerit is S = Σ −ln pᵢ in nats (see the package documentation).
 	FigureOfMerit float64 `json:"figure_of_merit"`
+	// Evidence is the model-choice criterion C in nats (see the package
+	// documentation).
+	Evidence float64 `json:"evidence"`
 	// Chance is the probability that a random peak list of the same count
 	// and range scores at least as well with this kind of model.
 	Chance      float64 `json:"chance"`
@@ -154,6 +187,19 @@ type Phase struct {
 	Peaks              []IndexedPeak `json:"peaks"`
 	// PhasonTrend is the fit of |Δq| against |G⊥| (icosahedral phases).
 	PhasonTrend *PhasonTrend `json:"phason_trend,omitempty"`
+	// MissingLines are the strong lines the phase predicts within the
+	// scan's peaks' range where no peak lies (library phases).
+	MissingLines []PredictedLine `json:"missing_lines,omitempty"`
+}
+
+// PredictedLine is a computed line of a phase.
+type PredictedLine struct {
+	TwoThetaDeg float64 `json:"two_theta_deg"`
+	DSpacingA   float64 `json:"d_A"`
+	HKL         [3]int  `json:"hkl"`
+	// Intensity is relative to the phase's strongest line in the range of
+	// the scan's peaks (100).
+	Intensity float64 `json:"intensity"`
 }
 
 // IndexedPeak is one peak with the reflection that explains it.
@@ -165,8 +211,11 @@ type IndexedPeak struct {
 	ResidualDeg           float64 `json:"residual_deg"` // observed − calculated, after the zero shift
 	// Icosahedral labels.
 	Icosahedral *IcosahedralLabel `json:"icosahedral,omitempty"`
-	// HKL is the cubic representative reflection (cubic phases and approximants).
+	// HKL is the representative reflection (crystalline phases and approximants).
 	HKL *[3]int `json:"hkl,omitempty"`
+	// PredictedIntensity is the computed intensity of the line, relative to
+	// the phase's strongest line in the range of the scan's peaks (100).
+	PredictedIntensity *float64 `json:"predicted_intensity,omitempty"`
 }
 
 // IcosahedralLabel indexes a peak by an icosahedral reflection family.
@@ -198,9 +247,11 @@ type ModelSummary struct {
 	Kind          Kind    `json:"kind"`
 	Lattice       string  `json:"lattice"`
 	Order         string  `json:"order,omitempty"`
-	ScaleA        float64 `json:"scale_A"` // a_R for icosahedral models, a otherwise
+	Phase         string  `json:"phase,omitempty"` // library phase
+	ScaleA        float64 `json:"scale_A"`         // a_R for icosahedral models, a otherwise
 	IndexedPeaks  int     `json:"indexed_peaks"`
 	FigureOfMerit float64 `json:"figure_of_merit"`
+	Evidence      float64 `json:"evidence"`
 	Chance        float64 `json:"chance"`
 }
 

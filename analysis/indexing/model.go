@@ -46,6 +46,7 @@ const (
 type line struct {
 	g    float64 // position in units of 1/scale (|G∥|·a6, or √S)
 	perp float64 // |G⊥|·a6 for icosahedral lines, 0 for cubic
+	w    float64 // predicted relative intensity, LP removed, 0..1 (weighted models)
 	ref  int     // index into the model's family or line table
 }
 
@@ -69,6 +70,14 @@ type model struct {
 	cubicLines []cubic.Line
 	// approximant windows: which reference and order each window belongs to
 	approx []approxWindow
+	// weighted models match peaks to lines by intensity too (see match);
+	// wcum holds their eligibility tables (see prepareWeights).
+	weighted bool
+	wcum     [][]int32
+	// known is the library phase of a library model; alternatives is the
+	// number of library phases tried, for the Šidák correction.
+	known        *KnownPhase
+	alternatives int
 }
 
 var (
@@ -166,6 +175,7 @@ func (m *model) finish() {
 	for b := range m.bins {
 		m.bins[b] = int32(lowerBound(m.gs, float64(b)*binWidth))
 	}
+	m.prepareWeights()
 }
 
 // inWindows reports whether scale a lies in one of the model's windows,
@@ -188,6 +198,8 @@ type preparedPeak struct {
 	qWHi     float64
 	wDeg     float64 // width of the density window, degrees
 	dxdq     float64 // d(2θ)/dq in degrees per Å⁻¹
+	o        float64 // observed relative intensity, LP removed, 0..1
+	lvl      int     // eligibility level of o (see eligibleLevels)
 }
 
 func qAt(twoThetaDeg, lambda float64) float64 {
@@ -196,7 +208,8 @@ func qAt(twoThetaDeg, lambda float64) float64 {
 
 func prepare(peaks []Peak, lambda, zero, tol float64, out []preparedPeak) []preparedPeak {
 	out = out[:0]
-	for _, p := range peaks {
+	obs := observedWeights(peaks)
+	for i, p := range peaks {
 		x := p.TwoThetaDeg - zero
 		lo := math.Max(x-densityHalfDeg, 0.5)
 		hi := math.Min(x+densityHalfDeg, 179.5)
@@ -209,23 +222,35 @@ func prepare(peaks []Peak, lambda, zero, tol float64, out []preparedPeak) []prep
 			qWHi: qAt(hi, lambda),
 			wDeg: hi - lo,
 			dxdq: lambda / math.Cos(theta) * 180 / math.Pi,
+			o:    obs[i],
+			lvl:  level(obs[i]),
 		})
 	}
 	return out
 }
 
 // match finds the line explaining a peak at scale a: among the lines within
-// tolerance, the lowest |G⊥| (icosahedral) or the nearest. It returns the
-// line index or -1, the residual in degrees (observed − calculated) and the
-// chance probability p of the match.
+// tolerance, the lowest |G⊥| (icosahedral) or the nearest; for a weighted
+// model, among the lines eligible for the peak's intensity, the strongest.
+// It returns the line index or -1, the residual in degrees (observed −
+// calculated) and the chance probability p of the match, whose line
+// density counts, for a weighted model, only the eligible lines.
 func (m *model) match(pp *preparedPeak, a float64) (idx int, resid, p float64) {
 	gLo, gHi := pp.qLo*a, pp.qHi*a
 	j := m.firstAtLeast(gLo)
 	idx = -1
 	bestPerp, bestDist := math.Inf(1), math.Inf(1)
+	floor := eligibleRatio * eligibleLevels[pp.lvl]
 	for ; j < len(m.gs) && m.gs[j] <= gHi; j++ {
 		dist := math.Abs(pp.q - m.gs[j]/a)
 		perp := m.lines[j].perp
+		if m.weighted {
+			// Rank by −w so that the strongest eligible line wins.
+			if m.lines[j].w < floor {
+				continue
+			}
+			perp = -m.lines[j].w
+		}
 		if perp < bestPerp-1e-9 || (perp < bestPerp+1e-9 && dist < bestDist) {
 			idx, bestPerp, bestDist = j, perp, dist
 		}
@@ -234,7 +259,12 @@ func (m *model) match(pp *preparedPeak, a float64) (idx int, resid, p float64) {
 		return -1, 0, 1
 	}
 	resid = (pp.q - m.gs[idx]/a) * pp.dxdq
-	count := float64(m.firstAtLeast(pp.qWHi*a) - m.firstAtLeast(pp.qWLo*a))
+	jLo, jHi := m.firstAtLeast(pp.qWLo*a), m.firstAtLeast(pp.qWHi*a)
+	count := float64(jHi - jLo)
+	if m.weighted {
+		c := m.wcum[pp.lvl]
+		count = float64(c[jHi] - c[jLo])
+	}
 	if count < 1 {
 		count = 1
 	}
@@ -246,15 +276,16 @@ func (m *model) match(pp *preparedPeak, a float64) (idx int, resid, p float64) {
 }
 
 // score returns S = Σ −ln p over the peaks indexed at scale a, less the
-// unobserved-line penalty, at least 0.
-func (m *model) score(prep []preparedPeak, a float64) float64 {
+// unobserved-line penalty, at least 0. all holds every peak of the scan
+// (prep those still to be indexed), for the missing-line check.
+func (m *model) score(prep, all []preparedPeak, a float64) float64 {
 	prod := 1.0
 	for i := range prep {
 		if idx, _, p := m.match(&prep[i], a); idx >= 0 {
 			prod *= p
 		}
 	}
-	return math.Max(-math.Log(prod)-m.missingPenalty(prep, a), 0)
+	return math.Max(-math.Log(prod)-m.missingPenalty(prep, all, a), 0)
 }
 
 // missingPenalty is the cost, in nats, of the allowed lines a general cubic
@@ -279,7 +310,10 @@ func (m *model) score(prep []preparedPeak, a float64) float64 {
 // Reference: common practice (the absence of predicted low-angle lines
 // rules out a cell; de Wolff's M20 weighs the calculated lines up to the
 // last observed one).
-func (m *model) missingPenalty(prep []preparedPeak, a float64) float64 {
+func (m *model) missingPenalty(prep, all []preparedPeak, a float64) float64 {
+	if m.weighted {
+		return m.missingStrong(all, a)
+	}
 	if m.kind != Cubic || len(prep) == 0 {
 		return 0
 	}
@@ -298,11 +332,55 @@ func (m *model) missingPenalty(prep []preparedPeak, a float64) float64 {
 	return missingCost * float64(missing)
 }
 
+// missingStrong is the cost, in nats, of the strong lines a weighted model
+// at scale a predicts where the scan shows no peak:
+//
+//	U = missingStrongCost · Σ wⱼ  over the lines with wⱼ ≥ strongLine and
+//	    q_first − δ ≤ qⱼ ≤ q_last + δ that have no peak within the tolerance
+//
+// with wⱼ the line's predicted intensity relative to the model's strongest
+// (Lorentz–polarisation removed), q_first and q_last the lowest- and
+// highest-angle peaks of the whole scan (all, sorted by 2θ) and δ the
+// tolerance. Every peak of the scan counts as present, those another phase
+// already took included, since lines of two phases may overlap.
+//
+// Reference: common practice in search-match (the strong lines of a phase
+// must all be seen; a missing strong line rules a candidate out unless
+// preferred orientation explains it, hence a finite cost).
+func (m *model) missingStrong(all []preparedPeak, a float64) float64 {
+	if len(all) == 0 {
+		return 0
+	}
+	lo, hi := all[0].qLo*a, all[len(all)-1].qHi*a
+	cost := 0.0
+	for j := m.firstAtLeast(lo); j < len(m.gs) && m.gs[j] <= hi; j++ {
+		w := m.lines[j].w
+		if w < strongLine {
+			continue
+		}
+		q := m.gs[j] / a
+		k := sort.Search(len(all), func(i int) bool { return all[i].qHi >= q })
+		if k == len(all) || all[k].qLo > q {
+			cost += missingStrongCost * w
+		}
+	}
+	return cost
+}
+
 // hits reports whether some line lies within tolerance of the peak at
-// scale a.
+// scale a (for a weighted model, a line eligible for the peak).
 func (m *model) hits(pp *preparedPeak, a float64) bool {
 	j := m.firstAtLeast(pp.qLo * a)
-	return j < len(m.gs) && m.gs[j] <= pp.qHi*a
+	if !m.weighted {
+		return j < len(m.gs) && m.gs[j] <= pp.qHi*a
+	}
+	floor := eligibleRatio * eligibleLevels[pp.lvl]
+	for ; j < len(m.gs) && m.gs[j] <= pp.qHi*a; j++ {
+		if m.lines[j].w >= floor {
+			return true
+		}
+	}
+	return false
 }
 
 // binWidth is the g step of the lookup table that replaces binary searches.

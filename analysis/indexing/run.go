@@ -22,7 +22,7 @@ func cachedModel(id string, build func() *model) *model {
 // models builds the models of one round: icosahedral, general cubic and
 // approximant windows around the references and the quasilattice
 // constants already found in the list.
-func models(opts Options, found []float64) []*model {
+func models(opts Options, lambda float64, found []float64) []*model {
 	var out []*model
 	for _, lat := range icosa.Lattices {
 		out = append(out, cachedModel(icosahedralID(lat, opts.PerpCutoff), func() *model { return newIcosahedralModel(lat, opts.PerpCutoff) }))
@@ -44,7 +44,7 @@ func models(opts Options, found []float64) []*model {
 			return m
 		}))
 	}
-	return out
+	return append(out, knownModels(opts.Library, lambda)...)
 }
 
 // minIndexed is the fewest indexed peaks that make a phase of the kind.
@@ -55,6 +55,10 @@ func minIndexed(k Kind) int {
 	return 3
 }
 
+// sizeOf returns how many models of the same kind were tried, for the
+// Šidák correction and the model-choice criterion.
+func (m *model) sizeOf() int { return m.latticesOfKind() }
+
 // approximantLattices are the cubic lattice types sought for approximants:
 // the known cubic approximants are primitive (α-AlMnSi, Pm-3) or
 // body-centred (Cd6Yb, Im-3).
@@ -63,8 +67,11 @@ var approximantLattices = []cubic.Lattice{cubic.Primitive, cubic.BodyCentred}
 // latticesOfKind is the number of lattice types tried for the model's
 // kind, for the Šidák correction.
 func (m *model) latticesOfKind() int {
-	if m.kind == Approximant {
+	switch m.kind {
+	case Approximant:
 		return len(approximantLattices)
+	case library:
+		return max(m.alternatives, 1)
 	}
 	return 3
 }
@@ -77,7 +84,7 @@ type scored struct {
 }
 
 func run(peaks []Peak, lambda float64, opts Options) Result {
-	cfg := searchConfig{lambda: lambda, tol: opts.ToleranceDeg, maxZero: opts.MaxZeroShiftDeg}
+	cfg := searchConfig{lambda: lambda, tol: opts.ToleranceDeg, maxZero: opts.MaxZeroShiftDeg, all: peaks}
 	total := 0.0
 	for _, p := range peaks {
 		total += p.Intensity
@@ -88,11 +95,11 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 	var taken []takenPhase
 	for round := 0; round < opts.MaxPhases && len(remaining) >= minIndexed(Cubic); round++ {
 		var all []scored
-		for _, m := range models(opts, found) {
+		for _, m := range models(opts, lambda, found) {
 			sol, ok := m.search(remaining, cfg)
 			if !ok {
 				if round == 0 {
-					res.Models = append(res.Models, ModelSummary{Kind: m.kind, Lattice: m.lattice, Chance: 1})
+					res.Models = append(res.Models, summary(m, solution{}, 1))
 				}
 				continue
 			}
@@ -110,7 +117,7 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 			if !decides && round > 0 {
 				continue
 			}
-			c, basis := chance(s.m, remaining, cfg, s.sol.score, perModel, decides)
+			c, basis := chance(s.m, remaining, nullConfig(cfg), s.sol.score, perModel, decides)
 			s.chance, s.basis = sidak(c, s.m.latticesOfKind()), basis
 			if decides && s.chance <= opts.MaxChance {
 				best = i
@@ -128,7 +135,7 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 			break
 		}
 		b := all[best]
-		ph := buildPhase(b, remaining, lambda, total)
+		ph := buildPhase(b, remaining, peaks, cfg, total)
 		res.Phases = append(res.Phases, ph)
 		taken = append(taken, takenPhase{b, remaining})
 		if b.m.kind == Icosahedral {
@@ -164,13 +171,13 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 // phase. Chances are computed where still missing.
 func preferSubCell(all []scored, best int, peaks []Peak, cfg searchConfig, maxChance float64) int {
 	x := all[best]
-	if x.m.kind == Icosahedral {
+	if x.m.kind != Cubic && x.m.kind != Approximant {
 		return best
 	}
 	strong := strongest(peaks, x.sol.assign)
 	for i := range all {
 		y := &all[i]
-		if y.m.kind == Icosahedral || y.sol.indexed < minIndexed(y.m.kind) || !(y.sol.a < all[best].sol.a) || !subCell(y.sol.a, x.sol.a) {
+		if (y.m.kind != Cubic && y.m.kind != Approximant) || y.sol.indexed < minIndexed(y.m.kind) || !(y.sol.a < all[best].sol.a) || !subCell(y.sol.a, x.sol.a) {
 			continue
 		}
 		same := y.sol.indexed >= x.sol.indexed
@@ -185,7 +192,7 @@ func preferSubCell(all []scored, best int, peaks []Peak, cfg searchConfig, maxCh
 		}
 		if y.basis == "" {
 			perModel := 1 - math.Pow(1-maxChance, 1/float64(y.m.latticesOfKind()))
-			c, basis := chance(y.m, peaks, cfg, y.sol.score, perModel, true)
+			c, basis := chance(y.m, peaks, nullConfig(cfg), y.sol.score, perModel, true)
 			y.chance, y.basis = sidak(c, y.m.latticesOfKind()), basis
 		}
 		if y.chance <= maxChance {
@@ -215,19 +222,63 @@ func strongest(peaks []Peak, assign []int) []int {
 	return idx[:min(len(idx), strongPeaks)]
 }
 
-// better orders significant solutions: higher figure of merit first; an
+// better orders solutions by the model-choice criterion, higher first; an
 // approximant beats the same cubic solution found by the general search.
 func better(x, y scored) bool {
-	if math.Abs(x.sol.score-y.sol.score) > 1e-6*math.Max(1, math.Abs(y.sol.score)) {
-		return x.sol.score > y.sol.score
+	cx, cy := x.m.evidence(x.sol), y.m.evidence(y.sol)
+	if math.Abs(cx-cy) > 1e-6*math.Max(1, math.Abs(cy)) {
+		return cx > cy
 	}
 	return x.m.kind == Approximant && y.m.kind == Cubic
 }
 
+// nullConfig is the configuration the random lists are searched with:
+// each list is a whole scan.
+func nullConfig(cfg searchConfig) searchConfig {
+	cfg.all = nil
+	return cfg
+}
+
+// evidence returns the model-choice criterion of a solution, in nats:
+//
+//	C = S − ln K − Σⱼ ln(Δⱼ / σ₀ⱼ)
+//
+// S the figure of merit, K the number of models of the kind tried (three
+// lattices, or the library's phases), and for each fitted constant j the
+// width Δⱼ of its search range over σ₀ⱼ, the uncertainty the residual floor
+// r₀ alone would give it (see scaleFloor). The sum is the Occam factor of
+// the constant: the share of its prior range that the data leave
+// plausible; a model whose constant could land anywhere in a wide range
+// pays more than one whose constant is known in advance to within a few
+// per cent. The zero shift is common to every model and left out.
+//
+// Reference: D. J. C. MacKay, Information Theory, Inference, and Learning
+// Algorithms, Cambridge University Press (2003), ch. 28 (the Occam factor);
+// G. Schwarz, Ann. Stat. 6, 461 (1978) for the large-sample form ½ ln n
+// per parameter that it refines.
+func (m *model) evidence(sol solution) float64 {
+	if sol.indexed == 0 {
+		return 0
+	}
+	width := 0.0
+	for _, w := range m.windows {
+		width += w.hi - w.lo
+	}
+	occam := 0.0
+	if sol.sigFloorA > 0 && width > sol.sigFloorA {
+		occam = math.Log(width / sol.sigFloorA)
+	}
+	return sol.score - math.Log(float64(m.sizeOf())) - occam
+}
+
 func summary(m *model, sol solution, c float64) ModelSummary {
-	s := ModelSummary{Kind: m.kind, Lattice: m.lattice, ScaleA: sol.a, IndexedPeaks: sol.indexed, FigureOfMerit: sol.score, Chance: c}
+	s := ModelSummary{Kind: m.reportedKind(), Lattice: m.lattice, ScaleA: sol.a, IndexedPeaks: sol.indexed, FigureOfMerit: sol.score, Evidence: m.evidence(sol), Chance: c}
 	if m.kind == Icosahedral {
 		s.ScaleA = sol.a / math.Sqrt2
+	}
+	if m.known != nil {
+		s.Phase = m.known.Name
+		s.ScaleA = sol.a * m.known.Cell.A
 	}
 	if m.kind == Approximant && sol.approx >= 0 {
 		s.Order = m.approx[sol.approx].order.String()
@@ -235,10 +286,12 @@ func summary(m *model, sol solution, c float64) ModelSummary {
 	return s
 }
 
-func buildPhase(s scored, peaks []Peak, lambda, total float64) Phase {
+func buildPhase(s scored, peaks, all []Peak, cfg searchConfig, total float64) Phase {
+	lambda := cfg.lambda
 	m, sol := s.m, s.sol
 	ph := Phase{
-		Kind:                    m.kind,
+		Kind:                    m.reportedKind(),
+		Evidence:                m.evidence(sol),
 		Lattice:                 m.lattice,
 		ZeroShiftDeg:            sol.z,
 		ZeroShiftUncertaintyDeg: sol.sigZ,
@@ -252,6 +305,8 @@ func buildPhase(s scored, peaks []Peak, lambda, total float64) Phase {
 		ph.SixDimensionalConstantA = sol.a
 		ph.QuasilatticeConstantA = sol.a / math.Sqrt2
 		ph.QuasilatticeConstantUncertaintyA = sol.sigA / math.Sqrt2
+	case library:
+		setKnownPhase(&ph, m.known, sol)
 	default:
 		ph.AA = sol.a
 		ph.AUncertaintyA = sol.sigA
@@ -284,6 +339,11 @@ func buildPhase(s scored, peaks []Peak, lambda, total float64) Phase {
 			ip.Icosahedral = &IcosahedralLabel{N: f.N, M: f.M, Index: f.Index, Multiplicity: f.Multiplicity, Perp: f.Perp, PerpPerA: f.Perp / sol.a}
 			trendX = append(trendX, f.Perp/sol.a)
 			trendY = append(trendY, math.Abs(qAt(p.TwoThetaDeg-sol.z, lambda)-ln.g/sol.a))
+		} else if m.known != nil {
+			hkl := m.known.Lines[ln.ref].HKL
+			ip.HKL = &hkl
+			pi := m.known.Lines[ln.ref].Intensity
+			ip.PredictedIntensity = &pi
 		} else {
 			hkl := m.cubicLines[ln.ref].HKL
 			ip.HKL = &hkl
@@ -298,6 +358,9 @@ func buildPhase(s scored, peaks []Peak, lambda, total float64) Phase {
 	}
 	if m.kind == Icosahedral {
 		ph.PhasonTrend = phasonTrend(trendX, trendY)
+	}
+	if m.known != nil {
+		m.finishKnown(&ph, sol, all, cfg)
 	}
 	return ph
 }

@@ -13,6 +13,9 @@ type solution struct {
 	indexed    int
 	assign     []int // per peak: line index or -1
 	approx     int   // approximant window index, -1 otherwise
+	// sigFloorA is the uncertainty of the scale that residuals of r₀ alone
+	// would give (see occam).
+	sigFloorA float64
 }
 
 // searchConfig carries what a search needs besides the model.
@@ -20,6 +23,17 @@ type searchConfig struct {
 	lambda  float64
 	tol     float64
 	maxZero float64
+	// all holds every peak of the scan, sorted by 2θ, when the search runs
+	// on what earlier phases left; nil means the peaks searched are all.
+	all []Peak
+}
+
+// allPeaks returns the scan's whole peak list for a search on peaks.
+func (c searchConfig) allPeaks(peaks []Peak) []Peak {
+	if c.all != nil {
+		return c.all
+	}
+	return peaks
 }
 
 // anchors returns the indices of the strongest peaks, strongest first.
@@ -44,6 +58,10 @@ func anchors(peaks []Peak) []int {
 // puts two strong peaks on lines.
 func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) {
 	prep := prepare(peaks, cfg.lambda, 0, cfg.tol, make([]preparedPeak, 0, len(peaks)))
+	allPrep := prep
+	if cfg.all != nil {
+		allPrep = prepare(cfg.all, cfg.lambda, 0, cfg.tol, nil)
+	}
 	type cand struct{ a, s float64 }
 	var cands []cand
 	anc := anchors(peaks)
@@ -52,7 +70,7 @@ func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) 
 		for _, w := range m.windows {
 			j := lowerBound(m.gs, pp.q*w.lo)
 			for ; j < len(m.gs) && m.gs[j] <= pp.q*w.hi; j++ {
-				if m.lines[j].perp > anchorPerp {
+				if m.lines[j].perp > anchorPerp || (m.weighted && m.lines[j].w < eligibleRatio*eligibleLevels[pp.lvl]) {
 					continue
 				}
 				a := m.gs[j] / pp.q
@@ -81,7 +99,7 @@ func (m *model) search(peaks []Peak, cfg searchConfig) (best solution, ok bool) 
 		}
 	}
 	for i := range uniq {
-		uniq[i].s = m.score(prep, uniq[i].a)
+		uniq[i].s = m.score(prep, allPrep, uniq[i].a)
 	}
 	// Equal scores keep the smaller scale first.
 	sort.SliceStable(uniq, func(i, j int) bool { return uniq[i].s > uniq[j].s })
@@ -131,10 +149,13 @@ func subCell(small, large float64) bool {
 // refine iterates matching and least squares from scale a with no zero shift.
 func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, bool) {
 	prep := make([]preparedPeak, 0, len(peaks))
+	var allPrep []preparedPeak
+	all := cfg.allPeaks(peaks)
 	z := 0.0
 	for iter := 0; iter < 4; iter++ {
 		prep = prepare(peaks, cfg.lambda, z, cfg.tol, prep)
-		sol := m.assign(prep, a, z)
+		allPrep = prepare(all, cfg.lambda, z, cfg.tol, allPrep)
+		sol := m.assign(prep, allPrep, a, z)
 		if sol.indexed < 2 {
 			return sol, false
 		}
@@ -148,11 +169,13 @@ func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, boo
 		a, z = na, nz
 	}
 	prep = prepare(peaks, cfg.lambda, z, cfg.tol, prep)
-	final := m.assign(prep, a, z)
+	allPrep = prepare(all, cfg.lambda, z, cfg.tol, allPrep)
+	final := m.assign(prep, allPrep, a, z)
 	if final.indexed < 2 {
 		return final, false
 	}
 	_, _, final.sigA, final.sigZ = m.leastSquares(peaks, final.assign, a, z, cfg)
+	final.sigFloorA = m.scaleFloor(final.assign, a, cfg.lambda)
 	if m.kind == Approximant {
 		final.approx = m.approximantWindow(a)
 		if final.approx < 0 || !m.strongLinesIcosahedral(peaks, final, cfg.lambda) {
@@ -163,7 +186,7 @@ func (m *model) refine(peaks []Peak, a float64, cfg searchConfig) (solution, boo
 }
 
 // assign matches every peak at (a, z) and scores the result.
-func (m *model) assign(prep []preparedPeak, a, z float64) solution {
+func (m *model) assign(prep, allPrep []preparedPeak, a, z float64) solution {
 	sol := solution{a: a, z: z, assign: make([]int, len(prep)), approx: -1}
 	for i := range prep {
 		idx, _, p := m.match(&prep[i], a)
@@ -173,7 +196,7 @@ func (m *model) assign(prep []preparedPeak, a, z float64) solution {
 			sol.score -= math.Log(p)
 		}
 	}
-	sol.score = math.Max(sol.score-m.missingPenalty(prep, a), 0)
+	sol.score = math.Max(sol.score-m.missingPenalty(prep, allPrep, a), 0)
 	return sol
 }
 
@@ -277,4 +300,29 @@ func (m *model) gaussNewton(peaks []Peak, assign []int, a, z float64, fitZero bo
 		return a, z, 0, 0
 	}
 	return a, z, math.Sqrt(sigma2 / saa), 0
+}
+
+// scaleFloor returns the uncertainty of the scale a that residuals of r₀
+// (residualFloorDeg) on the assigned peaks would give,
+//
+//	σ₀ = r₀ / √(Σᵢ (∂2θᵢ/∂a)²)
+//
+// Reference: common practice (linearised least squares).
+func (m *model) scaleFloor(assign []int, a, lambda float64) float64 {
+	var sum float64
+	for _, j := range assign {
+		if j < 0 {
+			continue
+		}
+		s := lambda * m.gs[j] / (2 * a)
+		if s >= 1 {
+			continue
+		}
+		d := 2 * s / a / math.Sqrt(1-s*s) * 180 / math.Pi
+		sum += d * d
+	}
+	if sum == 0 {
+		return a
+	}
+	return residualFloorDeg / math.Sqrt(sum)
 }
