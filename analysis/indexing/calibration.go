@@ -8,7 +8,7 @@ import (
 // CalibrationVersion identifies the search that calibration scores come
 // from. It changes whenever the search, the scoring or the random lists
 // change, so that scores kept from an older build are not used.
-const CalibrationVersion = "indexing-null-2"
+const CalibrationVersion = "indexing-null-3"
 
 // verifyLists is how many random lists of a loaded calibration entry are
 // scored again on first use; any difference discards the entry.
@@ -36,12 +36,15 @@ type CalibrationEntry struct {
 	WavelengthMicroA  int64     `json:"wavelength_micro_A"`
 	ToleranceMicroDeg int64     `json:"tolerance_micro_deg"`
 	MaxZeroMicroDeg   int64     `json:"max_zero_micro_deg"`
-	Scores            []float64 `json:"scores"`
+	// Decoys names the structured decoys the scores come from; empty for
+	// uniform random lists.
+	Decoys string    `json:"decoys,omitempty"`
+	Scores []float64 `json:"scores"`
 }
 
 func (e CalibrationEntry) key() nullKey {
 	return nullKey{model: e.Model, n: e.Peaks, lo: e.FromDeg, hi: e.ToDeg,
-		lambda: e.WavelengthMicroA, tol: e.ToleranceMicroDeg, maxZero: e.MaxZeroMicroDeg}
+		lambda: e.WavelengthMicroA, tol: e.ToleranceMicroDeg, maxZero: e.MaxZeroMicroDeg, set: decoySet(e.Decoys)}
 }
 
 // SnapshotCalibration returns every random-list score computed or loaded
@@ -58,7 +61,7 @@ func SnapshotCalibration() Calibration {
 		}
 		c.Entries = append(c.Entries, CalibrationEntry{Model: key.model, Peaks: key.n, FromDeg: key.lo, ToDeg: key.hi,
 			WavelengthMicroA: key.lambda, ToleranceMicroDeg: key.tol, MaxZeroMicroDeg: key.maxZero,
-			Scores: append([]float64(nil), d.scores...)})
+			Decoys: string(key.set), Scores: append([]float64(nil), d.scores...)})
 		return true
 	})
 	sort.Slice(c.Entries, func(i, j int) bool { return c.Entries[i].less(c.Entries[j]) })
@@ -79,8 +82,13 @@ func (e CalibrationEntry) less(f CalibrationEntry) bool {
 		return e.WavelengthMicroA < f.WavelengthMicroA
 	case e.ToleranceMicroDeg != f.ToleranceMicroDeg:
 		return e.ToleranceMicroDeg < f.ToleranceMicroDeg
+	case e.MaxZeroMicroDeg != f.MaxZeroMicroDeg:
+		return e.MaxZeroMicroDeg < f.MaxZeroMicroDeg
 	}
-	return e.MaxZeroMicroDeg < f.MaxZeroMicroDeg
+	if e.Decoys != f.Decoys {
+		return e.Decoys < f.Decoys
+	}
+	return false
 }
 
 // LoadCalibration adds the entries of a snapshot that this process has not
@@ -95,6 +103,9 @@ func LoadCalibration(c Calibration) int {
 	}
 	taken := 0
 	for _, e := range c.Entries {
+		if _, known := decoyClasses[decoySet(e.Decoys)]; !known && e.Decoys != "" {
+			continue
+		}
 		if e.Peaks < 1 || e.ToDeg <= e.FromDeg || len(e.Scores) < verifyLists || len(e.Scores) > nullLarge {
 			continue
 		}
@@ -121,11 +132,7 @@ func (d *nullDist) verify(m *model, key nullKey, cfg searchConfig) {
 	}
 	d.unverified = false
 	for i := 0; i < verifyLists && i < len(d.scores); i++ {
-		var s float64
-		if sol, ok := m.search(randomPeaks(key, i), cfg); ok {
-			s = sol.score
-		}
-		if s != d.scores[i] {
+		if key.score(m, cfg, i) != d.scores[i] {
 			d.scores = nil
 			d.sorted = map[int][]float64{}
 			return

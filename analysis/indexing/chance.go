@@ -7,6 +7,7 @@ import (
 	"math/rand/v2"
 	"runtime"
 	"sort"
+	"strings"
 	"sync"
 )
 
@@ -37,6 +38,30 @@ type nullKey struct {
 	lambda  int64 // wavelength, 1e-6 Å
 	tol     int64 // tolerance, 1e-6 degrees
 	maxZero int64 // zero-shift limit, 1e-6 degrees
+	set     decoySet
+}
+
+// list returns the i-th list of the key's null distribution: uniform
+// random peaks, or a structured decoy (nil when the decoy drew too few
+// lines).
+func (k nullKey) list(i int) []Peak {
+	if k.set == noDecoys {
+		return randomPeaks(k, i)
+	}
+	return decoyPeaks(k, k.set, i)
+}
+
+// score returns the model's best score on the key's i-th list (0 when it
+// finds nothing).
+func (k nullKey) score(m *model, cfg searchConfig, i int) float64 {
+	peaks := k.list(i)
+	if len(peaks) < 3 {
+		return 0
+	}
+	if sol, ok := m.search(peaks, cfg); ok {
+		return sol.score
+	}
+	return 0
 }
 
 func (k nullKey) seed() uint64 {
@@ -113,9 +138,7 @@ func nullScores(m *model, key nullKey, cfg searchConfig, size int) []float64 {
 		go func(w int) {
 			defer wg.Done()
 			for i := start + w; i < size; i += workers {
-				if sol, ok := m.search(randomPeaks(key, i), cfg); ok {
-					d.scores[i] = sol.score
-				}
+				d.scores[i] = key.score(m, cfg, i)
 			}
 		}(w)
 	}
@@ -135,10 +158,12 @@ func nullScores(m *model, key nullKey, cfg searchConfig, size int) []float64 {
 //
 // with K lists in all, K₊ of them positive and k = min(K₊/4, tailPoints). With fewer than
 // minTail positive lists there is no tail to fit and the estimate is
-// (exceedances + 1)/(K + 1).
+// (exceedances + 1)/(K + 1), or, for decoys (floorless), exceedances/K:
+// a decoy set that no list of which reaches s says nothing against s, and
+// the uniform lists' estimate governs.
 //
 // Reference: common practice (peaks-over-threshold tail estimate).
-func tailChance(null []float64, s float64) (float64, string) {
+func tailChance(null []float64, s float64, floorless bool) (float64, string) {
 	k := len(null)
 	exceed := sort.Search(k, func(i int) bool { return null[i] < s })
 	if exceed >= minExceed {
@@ -146,6 +171,9 @@ func tailChance(null []float64, s float64) (float64, string) {
 	}
 	positive := sort.Search(k, func(i int) bool { return null[i] <= 0 })
 	if positive < minTail {
+		if floorless {
+			return float64(exceed) / float64(k), fmt.Sprintf("%d of %d random lists scored as well", exceed, k)
+		}
 		return float64(exceed+1) / float64(k+1), fmt.Sprintf("%d of %d random lists scored as well", exceed, k)
 	}
 	top := min(positive/4, tailPoints)
@@ -164,9 +192,22 @@ func tailChance(null []float64, s float64) (float64, string) {
 }
 
 // chance returns the probability that a random list scores at least s
-// with the model, for lists like peaks. When refine is true and the first
-// estimate lies near threshold, it is made again from more random lists.
+// with the model, for lists like peaks: the larger of the estimates from
+// uniform random lists and from the model's structured decoys. When refine
+// is true and an estimate lies near threshold, it is made again from more
+// lists.
 func chance(m *model, peaks []Peak, cfg searchConfig, s, threshold float64, refine bool) (float64, string) {
+	c, basis := nullChance(m, peaks, cfg, s, threshold, refine, noDecoys, nullSmall, nullLarge)
+	if set := m.decoys(); set != noDecoys {
+		cd, bd := nullChance(m, peaks, cfg, s, threshold, refine, set, decoySmall, decoyLarge)
+		if cd > c {
+			return cd, strings.ReplaceAll(bd, "random lists", "decoy patterns ("+string(set)+")")
+		}
+	}
+	return c, basis
+}
+
+func nullChance(m *model, peaks []Peak, cfg searchConfig, s, threshold float64, refine bool, set decoySet, small, large int) (float64, string) {
 	lo, hi := rangeBucket(peaks)
 	key := nullKey{
 		model:   m.id,
@@ -176,10 +217,18 @@ func chance(m *model, peaks []Peak, cfg searchConfig, s, threshold float64, refi
 		lambda:  int64(math.Round(cfg.lambda * 1e6)),
 		tol:     int64(math.Round(cfg.tol * 1e6)),
 		maxZero: int64(math.Round(cfg.maxZero * 1e6)),
+		set:     set,
 	}
-	c, basis := tailChance(nullScores(m, key, cfg, nullSmall), s)
-	if refine && c > threshold/10 && c < threshold*3 {
-		c, basis = tailChance(nullScores(m, key, cfg, nullLarge), s)
+	floorless := set != noDecoys
+	c, basis := tailChance(nullScores(m, key, cfg, small), s, floorless)
+	// A decoy estimate is coarser (fewer lists, each dearer), so it is
+	// refined over a wider band.
+	upper := threshold * 3
+	if floorless {
+		upper = threshold * 10
+	}
+	if refine && c > threshold/10 && c < upper {
+		c, basis = tailChance(nullScores(m, key, cfg, large), s, floorless)
 	}
 	return c, basis
 }
