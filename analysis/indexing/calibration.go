@@ -29,13 +29,13 @@ type Calibration struct {
 // peak count, 2θ range, wavelength, tolerance and zero-shift limit, in the
 // order the lists are drawn.
 type CalibrationEntry struct {
-	Model             string    `json:"model"`
-	Peaks             int       `json:"peaks"`
-	FromDeg           int       `json:"from_deg"`
-	ToDeg             int       `json:"to_deg"`
-	WavelengthMicroA  int64     `json:"wavelength_micro_A"`
-	ToleranceMicroDeg int64     `json:"tolerance_micro_deg"`
-	MaxZeroMicroDeg   int64     `json:"max_zero_micro_deg"`
+	Model             string `json:"model"`
+	Peaks             int    `json:"peaks"`
+	FromDeg           int    `json:"from_deg"`
+	ToDeg             int    `json:"to_deg"`
+	WavelengthMicroA  int64  `json:"wavelength_micro_A"`
+	ToleranceMicroDeg int64  `json:"tolerance_micro_deg"`
+	MaxZeroMicroDeg   int64  `json:"max_zero_micro_deg"`
 	// Decoys names the structured decoys the scores come from; empty for
 	// uniform random lists.
 	Decoys string    `json:"decoys,omitempty"`
