@@ -37,8 +37,12 @@ var Identity = Operation{R: [3][3]int{{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}}
 type SpaceGroup struct {
 	Number int    // 1 … 230
 	HM     string // Hermann–Mauguin symbol of the setting, e.g. "P 63/m m c", "I 4/m c m"
-	Hall   string // Hall symbol, e.g. "-P 6c 2c"
-	System System
+	// Setting is the extension telling two settings of one symbol apart:
+	// "1" or "2" (origin choice), "H" or "R" (hexagonal or rhombohedral
+	// axes), "" when there is only one.
+	Setting string
+	Hall    string // Hall symbol, e.g. "-P 6c 2c"
+	System  System
 	// Centring is the lattice letter: P, A, B, C, I, F or R (R for the
 	// hexagonal-axes setting of a rhombohedral group, P for its
 	// rhombohedral-axes setting).
