@@ -32,10 +32,11 @@
 //
 // # Powder CIF
 //
-// The CIF 1.1 syntax is tokenised here (comments, quoted strings,
-// semicolon text fields, loop_, data_ and save_ frames). The first data
-// block holding a loop with an intensity column is the pattern: intensity
-// is taken from _pd_meas_counts_total, else _pd_meas_intensity_total, else
+// The CIF 1.1 syntax (comments, quoted strings, semicolon text fields,
+// loop_, data_ and save_ frames) is read by meltbook/analysis/cif. The
+// first data block holding a loop with an intensity column is the
+// pattern: intensity is taken from _pd_meas_counts_total, else
+// _pd_meas_intensity_total, else
 // _pd_proc_intensity_total, with standard uncertainties written in
 // parentheses ("1234(35)"). 2θ comes from a looped _pd_meas_2theta_scan,
 // _pd_meas_angle_2theta or _pd_proc_2theta_corrected, or, when not looped,

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"meltbook/analysis/cif"
 )
 
 // Tags of the pdCIF dictionary read here, in order of preference.
@@ -28,16 +30,16 @@ func readPowderCIF(file string, data []byte) (Scan, error) {
 		return Scan{}, err
 	}
 	var (
-		block *cifBlock
-		loop  *cifLoop
+		block *cif.Block
+		loop  *cif.Loop
 		iCol  = -1
 		iTag  string
 	)
 search:
 	for _, b := range blocks {
 		for _, t := range intensityTags {
-			for _, lp := range b.loops {
-				if c := lp.column(t); c >= 0 {
+			for _, lp := range b.Loops {
+				if c := column(lp, t); c >= 0 {
 					block, loop, iCol, iTag = b, lp, c, t
 					break search
 				}
@@ -50,14 +52,14 @@ search:
 	}
 
 	s := Scan{Format: FormatPowderCIF, Items: map[string]string{}}
-	for tag, v := range block.items {
-		s.Items[tag] = v.text
+	for tag, v := range block.Items {
+		s.Items[tag] = v.Text
 	}
 
 	// 2θ: a looped column, else the range items.
 	tCol, tTag := -1, ""
 	for _, t := range twoThetaTags {
-		if c := loop.column(t); c >= 0 {
+		if c := column(loop, t); c >= 0 {
 			tCol, tTag = c, t
 			break
 		}
@@ -70,16 +72,16 @@ search:
 		}
 	}
 
-	pts := make([]point, len(loop.rows))
+	pts := make([]point, len(loop.Rows))
 	withESD := 0
-	for i, row := range loop.rows {
+	for i, row := range loop.Rows {
 		p := &pts[i]
 		v, su, hasSU, err := cifNumber(file, row[iCol], iTag)
 		if err != nil {
 			return Scan{}, err
 		}
-		p.counts, p.esd, p.countsAt, p.countsName = v, su, row[iCol].pos, iTag
-		p.esdAt, p.esdName = row[iCol].pos, iTag+" uncertainty"
+		p.counts, p.esd, p.countsAt, p.countsName = v, su, at(row[iCol]), iTag
+		p.esdAt, p.esdName = at(row[iCol]), iTag+" uncertainty"
 		if hasSU {
 			withESD++
 		}
@@ -87,16 +89,16 @@ search:
 			if p.twoTheta, _, _, err = cifNumber(file, row[tCol], tTag); err != nil {
 				return Scan{}, err
 			}
-			p.twoThetaAt, p.twoThetaName = row[tCol].pos, tTag
+			p.twoThetaAt, p.twoThetaName = at(row[tCol]), tTag
 		} else {
-			p.twoTheta, p.twoThetaAt, p.twoThetaName = rangeTwoTheta[i], row[iCol].pos, "2θ from the range items"
+			p.twoTheta, p.twoThetaAt, p.twoThetaName = rangeTwoTheta[i], at(row[iCol]), "2θ from the range items"
 		}
 	}
 	if withESD != 0 && withESD != len(pts) {
-		for _, row := range loop.rows {
+		for _, row := range loop.Rows {
 			if _, _, has, _ := cifNumber(file, row[iCol], iTag); !has {
-				return Scan{}, &Error{File: file, Line: row[iCol].pos.line, Column: row[iCol].pos.col, Err: ErrMissing,
-					Msg: fmt.Sprintf("%s: value %q has no standard uncertainty in parentheses; %d other values of the loop have one", iTag, row[iCol].text, withESD)}
+				return Scan{}, &Error{File: file, Line: row[iCol].Line, Column: row[iCol].Col, Err: ErrMissing,
+					Msg: fmt.Sprintf("%s: value %q has no standard uncertainty in parentheses; %d other values of the loop have one", iTag, row[iCol].Text, withESD)}
 			}
 		}
 	}
@@ -106,12 +108,12 @@ search:
 	if s.Wavelengths, err = wavelengths(file, block, blocks); err != nil {
 		return Scan{}, err
 	}
-	if t, ok := block.items[tagTarget]; ok && t.text != "?" && t.text != "." {
-		s.Anode = t.text
+	if t, ok := block.Items[tagTarget]; ok && t.Text != "?" && t.Text != "." {
+		s.Anode = t.Text
 	} else {
 		for _, b := range blocks {
-			if t, ok := b.items[tagTarget]; ok && t.text != "?" && t.text != "." {
-				s.Anode = t.text
+			if t, ok := b.Items[tagTarget]; ok && t.Text != "?" && t.Text != "." {
+				s.Anode = t.Text
 				break
 			}
 		}
@@ -123,11 +125,11 @@ search:
 // _inc (or the _pd_proc_ items): min + i·inc for i = 0 … n−1, where
 // n = round((max − min)/inc) + 1 must equal the loop's row count and
 // min + (n−1)·inc must meet max within a hundredth of a step.
-func twoThetaFromRange(file string, block *cifBlock, loop *cifLoop) ([]float64, error) {
+func twoThetaFromRange(file string, block *cif.Block, loop *cif.Loop) ([]float64, error) {
 	for _, prefix := range rangePrefixes {
-		minTok, ok1 := block.items[prefix+"min"]
-		maxTok, ok2 := block.items[prefix+"max"]
-		incTok, ok3 := block.items[prefix+"inc"]
+		minTok, ok1 := block.Items[prefix+"min"]
+		maxTok, ok2 := block.Items[prefix+"max"]
+		incTok, ok3 := block.Items[prefix+"inc"]
 		if !ok1 && !ok2 && !ok3 {
 			continue
 		}
@@ -137,7 +139,7 @@ func twoThetaFromRange(file string, block *cifBlock, loop *cifLoop) ([]float64, 
 		}{{ok1, "min"}, {ok2, "max"}, {ok3, "inc"}} {
 			if !it.ok {
 				return nil, &Error{File: file, Err: ErrMissing,
-					Msg: fmt.Sprintf("data_%s: 2θ is not looped and %s%s is missing", block.name, prefix, it.tag)}
+					Msg: fmt.Sprintf("data_%s: 2θ is not looped and %s%s is missing", block.Name, prefix, it.tag)}
 			}
 		}
 		lo, _, _, err := cifNumber(file, minTok, prefix+"min")
@@ -153,18 +155,18 @@ func twoThetaFromRange(file string, block *cifBlock, loop *cifLoop) ([]float64, 
 			return nil, err
 		}
 		if !(inc > 0) || !(hi > lo) {
-			return nil, &Error{File: file, Line: incTok.pos.line, Column: incTok.pos.col, Err: ErrOutOfRange,
+			return nil, &Error{File: file, Line: incTok.Line, Column: incTok.Col, Err: ErrOutOfRange,
 				Msg: fmt.Sprintf("2θ range min %v, max %v, inc %v: need max > min and inc > 0", lo, hi, inc)}
 		}
 		steps := (hi - lo) / inc
 		n := math.Round(steps) + 1
 		if math.Abs(steps-(n-1)) > 0.01 || n > MaxBytes {
-			return nil, &Error{File: file, Line: incTok.pos.line, Column: incTok.pos.col, Err: ErrOutOfRange,
+			return nil, &Error{File: file, Line: incTok.Line, Column: incTok.Col, Err: ErrOutOfRange,
 				Msg: fmt.Sprintf("2θ range %v to %v is not a whole number of %v° steps", lo, hi, inc)}
 		}
-		if int(n) != len(loop.rows) {
-			return nil, &Error{File: file, Line: loop.at.line, Column: loop.at.col, Err: ErrColumns,
-				Msg: fmt.Sprintf("2θ range %v to %v by %v gives %d points but the loop has %d rows", lo, hi, inc, int(n), len(loop.rows))}
+		if int(n) != len(loop.Rows) {
+			return nil, &Error{File: file, Line: loop.Line, Column: loop.Col, Err: ErrColumns,
+				Msg: fmt.Sprintf("2θ range %v to %v by %v gives %d points but the loop has %d rows", lo, hi, inc, int(n), len(loop.Rows))}
 		}
 		out := make([]float64, int(n))
 		for i := range out {
@@ -172,7 +174,7 @@ func twoThetaFromRange(file string, block *cifBlock, loop *cifLoop) ([]float64, 
 		}
 		return out, nil
 	}
-	return nil, &Error{File: file, Line: loop.at.line, Column: loop.at.col, Err: ErrMissing,
+	return nil, &Error{File: file, Line: loop.Line, Column: loop.Col, Err: ErrMissing,
 		Msg: "loop gives intensities but no 2θ: loop " + strings.Join(twoThetaTags, ", ") +
 			" or give _pd_meas_2theta_range_min, _max and _inc"}
 }
@@ -180,11 +182,11 @@ func twoThetaFromRange(file string, block *cifBlock, loop *cifLoop) ([]float64, 
 // wavelengths reads _diffrn_radiation_wavelength (looped or not, with
 // optional _wt) from the pattern block, else from the first block that has
 // it.
-func wavelengths(file string, block *cifBlock, blocks []*cifBlock) ([]Wavelength, error) {
-	order := append([]*cifBlock{block}, blocks...)
+func wavelengths(file string, block *cif.Block, blocks []*cif.Block) ([]Wavelength, error) {
+	order := append([]*cif.Block{block}, blocks...)
 	for _, b := range order {
-		if t, ok := b.items[tagWavelength]; ok {
-			if t.text == "?" || t.text == "." {
+		if t, ok := b.Items[tagWavelength]; ok {
+			if t.Text == "?" || t.Text == "." {
 				return nil, nil
 			}
 			v, _, _, err := cifNumber(file, t, tagWavelength)
@@ -192,21 +194,21 @@ func wavelengths(file string, block *cifBlock, blocks []*cifBlock) ([]Wavelength
 				return nil, err
 			}
 			w := Wavelength{Angstrom: v}
-			if wt, ok := b.items[tagWavelengthWeight]; ok {
+			if wt, ok := b.Items[tagWavelengthWeight]; ok {
 				if w.Weight, _, _, err = cifNumber(file, wt, tagWavelengthWeight); err != nil {
 					return nil, err
 				}
 			}
 			return []Wavelength{w}, checkWavelengths(file, []Wavelength{w}, t)
 		}
-		for _, lp := range b.loops {
-			c := lp.column(tagWavelength)
+		for _, lp := range b.Loops {
+			c := column(lp, tagWavelength)
 			if c < 0 {
 				continue
 			}
-			cw := lp.column(tagWavelengthWeight)
+			cw := column(lp, tagWavelengthWeight)
 			var out []Wavelength
-			for _, row := range lp.rows {
+			for _, row := range lp.Rows {
 				v, _, _, err := cifNumber(file, row[c], tagWavelength)
 				if err != nil {
 					return nil, err
@@ -228,10 +230,10 @@ func wavelengths(file string, block *cifBlock, blocks []*cifBlock) ([]Wavelength
 	return nil, nil
 }
 
-func checkWavelengths(file string, ws []Wavelength, at token) error {
+func checkWavelengths(file string, ws []Wavelength, at cif.Value) error {
 	for _, w := range ws {
 		if !(w.Angstrom > 0) || w.Weight < 0 {
-			return &Error{File: file, Line: at.pos.line, Column: at.pos.col, Err: ErrOutOfRange,
+			return &Error{File: file, Line: at.Line, Column: at.Col, Err: ErrOutOfRange,
 				Msg: fmt.Sprintf("%s: wavelength %v Å with weight %v: need a positive wavelength and a non-negative weight", tagWavelength, w.Angstrom, w.Weight)}
 		}
 	}
@@ -241,13 +243,13 @@ func checkWavelengths(file string, ws []Wavelength, at token) error {
 // cifNumber reads a CIF numeric value with an optional standard
 // uncertainty in parentheses, which counts in units of the last digit of
 // the mantissa: "28.4400(5)" is 28.44 ± 0.0005, "1.5e3(2)" is 1500 ± 200.
-func cifNumber(file string, t token, tag string) (v, su float64, hasSU bool, err error) {
+func cifNumber(file string, t cif.Value, tag string) (v, su float64, hasSU bool, err error) {
 	fail := func(e error) (float64, float64, bool, error) {
-		return 0, 0, false, &Error{File: file, Line: t.pos.line, Column: t.pos.col, Err: kindOf(e),
+		return 0, 0, false, &Error{File: file, Line: t.Line, Column: t.Col, Err: kindOf(e),
 			Msg: fmt.Sprintf("%s: %v", tag, e)}
 	}
-	text := t.text
-	if !t.quoted && (text == "?" || text == ".") {
+	text := t.Text
+	if !t.Quoted && (text == "?" || text == ".") {
 		return fail(&valueError{text, ErrMissing})
 	}
 	num := text
