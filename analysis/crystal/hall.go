@@ -71,10 +71,10 @@ var hallTranslation = map[byte][3]int{
 	'u': {6, 0, 0}, 'v': {0, 6, 0}, 'w': {0, 0, 6}, 'd': {6, 6, 6},
 }
 
-// hallRotation gives the proper rotation matrices of a Hall symbol by
-// order and axis: x, y, z, the face diagonals ' and " (relative to the
-// preceding axis, written here as the two-character keys 'x, "x, ...) and
-// the body diagonal *.
+// hallRotation gives the proper rotation matrices of a Hall symbol keyed
+// by order and axis: x, y, z, the face diagonals ' and " followed by the
+// preceding axis they are taken against ("2'z" is the 2-fold along a−b,
+// "2\"z" along a+b) and the body diagonal "3*".
 var hallRotation = map[string][3][3]int{
 	"2x":   {{1, 0, 0}, {0, -1, 0}, {0, 0, -1}},
 	"2y":   {{-1, 0, 0}, {0, 1, 0}, {0, 0, -1}},

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"meltbook"
@@ -51,7 +52,8 @@ var (
 // _cell_angle_alpha/beta/gamma (degrees, 90 when absent). The space group
 // comes from the first of: the operations _space_group_symop_operation_xyz
 // or _symmetry_equiv_pos_as_xyz (authoritative; they must form a group
-// modulo lattice translations), the Hall symbol _space_group_name_Hall or
+// modulo lattice translations; when they match no listed setting the
+// stated number is kept, see IdentifySpaceGroup), the Hall symbol _space_group_name_Hall or
 // _symmetry_space_group_name_Hall, the Hermann–Mauguin symbol
 // _space_group_name_H-M_alt or _symmetry_space_group_name_H-M (see
 // FindSpaceGroup for the default settings; an R symbol on a cell with
@@ -220,6 +222,9 @@ func (r blockReader) group(cell Cell) (SpaceGroup, error) {
 		}
 		ops = append(ops, op)
 	}
+	if len(ops) > maxOperations {
+		return SpaceGroup{}, r.fail(opsLine, opsTag, "%d operations are more than any space group has (%d)", len(ops), maxOperations)
+	}
 	if ops != nil {
 		g := IdentifySpaceGroup(ops)
 		if err := g.CheckGroup(); err != nil {
@@ -228,6 +233,14 @@ func (r blockReader) group(cell Cell) (SpaceGroup, error) {
 				return g, r.fail(opsLine, opsTag, "%s", me.Message)
 			}
 			return g, r.fail(opsLine, opsTag, "%v", err)
+		}
+		if g.Number == 0 {
+			// operations of no listed setting: keep the number the file states
+			if v, _, ok := r.text(tagNumber...); ok {
+				if n, err := strconv.Atoi(strings.TrimSpace(v.Text)); err == nil && SystemOfNumber(n) != "" {
+					g.Number, g.System = n, SystemOfNumber(n)
+				}
+			}
 		}
 		return g, nil
 	}

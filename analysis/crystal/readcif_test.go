@@ -194,16 +194,39 @@ _atom_site_fract_y
 _atom_site_fract_z
 Cs1 0 0 0
 Cl1 .5 .5 .5
+data_shifted
+_cell_length_a 5
+_cell_length_b 6
+_cell_length_c 7
+_cell_angle_alpha 80
+_cell_angle_beta 85
+_cell_angle_gamma 95
+_space_group_IT_number 2
+loop_
+_space_group_symop_operation_xyz
+x,y,z
+-x+1/6,-y,-z
+loop_
+_atom_site_label
+_atom_site_fract_x
+_atom_site_fract_y
+_atom_site_fract_z
+Si1 0.3 0.2 0.1
 `
 	s, err := crystal.ReadCIF("t.cif", []byte(text))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(s) != 2 || s[0].Group.Setting != "R" || len(s[0].Group.Ops) != 12 || len(s[0].Atoms()) != 2 {
+	if len(s) != 3 || s[0].Group.Setting != "R" || len(s[0].Group.Ops) != 12 || len(s[0].Atoms()) != 2 {
 		t.Fatalf("rhombohedral block: %+v", s[0].Group)
 	}
 	if c := s[1].Cell; c.Alpha != 90 || c.Beta != 90 || c.Gamma != 90 || s[1].Group.Number != 221 {
 		t.Errorf("cube: cell %+v, group %d", c, s[1].Group.Number)
+	}
+	// P-1 with its centre of symmetry at (1/12, 0, 0) is no listed
+	// setting: the operations stay, the stated number 2 is kept.
+	if g := s[2].Group; g.Number != 2 || g.System != crystal.Triclinic || g.HM != "" || len(g.Ops) != 2 {
+		t.Errorf("shifted: group %+v", g)
 	}
 }
 

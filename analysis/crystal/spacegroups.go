@@ -52,6 +52,7 @@ func SystemOfNumber(n int) System {
 var (
 	lookupOnce sync.Once
 	byName     map[string]int // compacted H-M (with and without extension), short H-M, Hall
+	byFolded   map[string]int // lower-case compacted H-M, -1 where two settings share it
 	byNumber   map[int]int    // default setting of each number
 	byOps      map[string]int // operation-set key
 	groups     []SpaceGroup
@@ -117,6 +118,7 @@ func opsKey(ops []Operation) string {
 
 func buildLookup() {
 	byName = map[string]int{}
+	byFolded = map[string]int{}
 	byNumber = map[int]int{}
 	byOps = map[string]int{}
 	groups = make([]SpaceGroup, len(settingTable))
@@ -141,12 +143,25 @@ func buildLookup() {
 		}
 		add(compactName(e.HM), i)
 		add(compactName(shortHM(e.HM)), i)
-		byName[hallKey(e.Hall)] = i
+		if _, ok := byName[hallKey(e.Hall)]; !ok {
+			byName[hallKey(e.Hall)] = i
+		}
 		if j, ok := byNumber[e.Number]; !ok || preferred(e, settingTable[j]) && settingTable[j].HM == e.HM {
 			byNumber[e.Number] = i
 		}
 		if _, ok := byOps[opsKey(ops)]; !ok {
 			byOps[opsKey(ops)] = i
+		}
+	}
+	for key, i := range byName {
+		if strings.HasPrefix(key, "hall:") {
+			continue
+		}
+		folded := strings.ToLower(key)
+		if j, ok := byFolded[folded]; ok && j != i {
+			byFolded[folded] = -1
+		} else if !ok {
+			byFolded[folded] = i
 		}
 	}
 }
@@ -162,7 +177,9 @@ func copyGroup(i int) SpaceGroup {
 //
 //   - a full or short Hermann–Mauguin symbol, with or without spaces and
 //     with an optional setting after a colon: "P63/mmc", "P 63/m m c",
-//     "I4/mcm", "Fm-3m", "P21/c", "Fd-3m:1", "R-3m:R";
+//     "I4/mcm", "Fm-3m", "P21/c", "Fd-3m:1", "R-3m:R"; letters in the
+//     wrong case ("P 63/M M C") are accepted when no other symbol then
+//     reads the same;
 //   - a Hall symbol: "-P 6c 2c", "-F 4vw 2vw 3";
 //   - an International Tables number: "194".
 //
@@ -190,6 +207,9 @@ func FindSpaceGroup(name string) (SpaceGroup, error) {
 		return copyGroup(i), nil
 	}
 	if i, ok := byName[compactName(s)]; ok {
+		return copyGroup(i), nil
+	}
+	if i, ok := byFolded[strings.ToLower(compactName(s))]; ok && i >= 0 {
 		return copyGroup(i), nil
 	}
 	if ops, err := HallOperations(s); err == nil {

@@ -40,6 +40,9 @@ func TestFindSpaceGroup(t *testing.T) {
 		{"P-1", 2, "", "P -1", crystal.Triclinic, 'P', 2},
 		{"Im-3", 204, "", "I m -3", crystal.Cubic, 'I', 48},
 		{"P321", 150, "", "P 3 2 1", crystal.Trigonal, 'P', 6},
+		{"P 63/M M C", 194, "", "P 63/m m c", crystal.Hexagonal, 'P', 24},
+		{"pnma", 62, "", "P n m a", crystal.Orthorhombic, 'P', 8},
+		{"P 2 2 3 (1 1 1)", 0, "", "", crystal.Cubic, 'P', 12}, // a Hall symbol of no listed setting: P23 (12 operations) with its origin moved
 	}
 	for _, c := range cases {
 		g, err := crystal.FindSpaceGroup(c.name)
