@@ -205,7 +205,24 @@ const (
 	ModelIcosahedral = "icosahedral"
 	ModelApproximant = "approximant"
 	ModelCubic       = "cubic"
+	// The other crystal systems of a lattice search or a library phase.
+	ModelTetragonal   = "tetragonal"
+	ModelHexagonal    = "hexagonal"
+	ModelOrthorhombic = "orthorhombic"
+	ModelMonoclinic   = "monoclinic"
+	ModelTriclinic    = "triclinic"
+	ModelRhombohedral = "rhombohedral"
 )
+
+// IsCrystalKind reports whether kind is an ordinary crystalline phase:
+// cubic or one of the six other crystal systems.
+func IsCrystalKind(kind string) bool {
+	switch kind {
+	case ModelCubic, ModelTetragonal, ModelHexagonal, ModelOrthorhombic, ModelMonoclinic, ModelTriclinic, ModelRhombohedral:
+		return true
+	}
+	return false
+}
 
 // PeakAssignment says which reflection explains one peak.
 type PeakAssignment struct {
@@ -220,6 +237,9 @@ type PeakAssignment struct {
 	// (N, M), "422" for a cubic reflection; Detail adds the full index.
 	Label  string `json:"label"`
 	Detail string `json:"detail,omitempty"`
+	// PredictedIntensity is the reflection's relative predicted intensity,
+	// the strongest predicted line of the phase = 100; nil when not known.
+	PredictedIntensity *float64 `json:"predicted_intensity,omitempty"`
 }
 
 // IndexedPhase is one phase an indexing found.
@@ -252,8 +272,30 @@ type IndexedPhase struct {
 	ExplainedIntensity float64 `json:"explained_intensity"`
 	RMSResidualDeg     float64 `json:"rms_residual_deg"`
 	// PhasonStrain is set when residuals grow with |G⊥| (icosahedral).
-	PhasonStrain bool             `json:"phason_strain,omitempty"`
-	Assignments  []PeakAssignment `json:"assignments"`
+	PhasonStrain bool `json:"phason_strain,omitempty"`
+	// Phase is a library phase's name as displayed ("θ-Al2Cu"), empty for a
+	// lattice-search solution; SpaceGroup its short Hermann–Mauguin symbol
+	// ("I4/mcm"); Reference where its structure was published.
+	Phase      string `json:"phase,omitempty"`
+	SpaceGroup string `json:"space_group,omitempty"`
+	Reference  string `json:"reference,omitempty"`
+	// ConstantB and ConstantC (Å) and Alpha, Beta, Gamma (degrees), with
+	// their standard uncertainties, are the cell constants the kind does
+	// not fix; zero when it fixes them.
+	ConstantB   float64 `json:"b_angstrom,omitempty"`
+	ConstantSUB float64 `json:"b_su_angstrom,omitempty"`
+	ConstantC   float64 `json:"c_angstrom,omitempty"`
+	ConstantSUC float64 `json:"c_su_angstrom,omitempty"`
+	AlphaDeg    float64 `json:"alpha_deg,omitempty"`
+	AlphaSUDeg  float64 `json:"alpha_su_deg,omitempty"`
+	BetaDeg     float64 `json:"beta_deg,omitempty"`
+	BetaSUDeg   float64 `json:"beta_su_deg,omitempty"`
+	GammaDeg    float64 `json:"gamma_deg,omitempty"`
+	GammaSUDeg  float64 `json:"gamma_su_deg,omitempty"`
+	// WholePatternRwp is the Le Bail check's Rwp, a fraction 0..1; nil when
+	// none was run.
+	WholePatternRwp *float64         `json:"whole_pattern_rwp,omitempty"`
+	Assignments     []PeakAssignment `json:"assignments"`
 }
 
 // Title writes the phase in short, e.g. "icosahedral F, a_R = 4.4621(8) Å",
@@ -265,7 +307,34 @@ func (p *IndexedPhase) Title() string {
 	case ModelApproximant:
 		return "cubic " + p.Lattice + " approximant " + p.Order + ", a = " + WithUncertainty(p.ConstantA, p.ConstantSUA) + " Å"
 	}
-	return "cubic " + p.Lattice + ", a = " + WithUncertainty(p.ConstantA, p.ConstantSUA) + " Å"
+	kind := p.Kind
+	if kind == "" {
+		kind = ModelCubic
+	}
+	t := kind + " " + p.Lattice
+	if p.SpaceGroup != "" {
+		t = kind + " " + p.SpaceGroup
+	}
+	if p.Phase != "" {
+		t = p.Phase + ", " + t
+	}
+	t += ", a = " + WithUncertainty(p.ConstantA, p.ConstantSUA) + " Å"
+	if p.ConstantB > 0 {
+		t += ", b = " + WithUncertainty(p.ConstantB, p.ConstantSUB) + " Å"
+	}
+	if p.ConstantC > 0 {
+		t += ", c = " + WithUncertainty(p.ConstantC, p.ConstantSUC) + " Å"
+	}
+	if p.AlphaDeg > 0 {
+		t += ", α = " + WithUncertainty(p.AlphaDeg, p.AlphaSUDeg) + "°"
+	}
+	if p.BetaDeg > 0 {
+		t += ", β = " + WithUncertainty(p.BetaDeg, p.BetaSUDeg) + "°"
+	}
+	if p.GammaDeg > 0 {
+		t += ", γ = " + WithUncertainty(p.GammaDeg, p.GammaSUDeg) + "°"
+	}
+	return t
 }
 
 // ModelTried is the best solution one model reached on all the peaks,
@@ -274,6 +343,7 @@ type ModelTried struct {
 	Kind          string  `json:"kind"`
 	Lattice       string  `json:"lattice"`
 	Order         string  `json:"order,omitempty"`
+	Phase         string  `json:"phase,omitempty"`
 	ScaleA        float64 `json:"scale_angstrom"` // a_R (icosahedral) or a, Å
 	IndexedPeaks  int     `json:"indexed_peaks"`
 	FigureOfMerit float64 `json:"figure_of_merit"`
