@@ -126,6 +126,9 @@ func run(peaks []Peak, lambda float64, opts Options) Result {
 		if best >= 0 {
 			best = preferSubCell(all, best, remaining, cfg, opts.MaxChance)
 		}
+		if best >= 0 && outranked(all, best, opts.MaxChance) {
+			best = -1
+		}
 		if round == 0 {
 			for _, s := range all {
 				res.Models = append(res.Models, summary(s.m, s.sol, s.chance))
@@ -439,4 +442,41 @@ func relabelApproximants(phases []Phase, taken []takenPhase, found []float64, la
 		phases[i].ApproximantOf = w.reference
 		phases[i].IdealAA = w.ideal
 	}
+}
+
+// outranked reports whether a solution of another kind with a higher
+// model-choice criterion, not significant itself, indexes at least as many
+// peaks and most (four in five) of those all[best] indexes. Then the peaks
+// are better explained by a model that chance could also explain, and
+// reporting the weaker one in its place would be a guess: the peaks stay
+// unidentified. (A cubic crystal's dozen lines, half of which an
+// icosahedral model also fits, is the case this guards against.)
+//
+// Reference: common practice (a phase call must be the best explanation,
+// not merely a significant one).
+func outranked(all []scored, best int, maxChance float64) bool {
+	b := all[best]
+	cb := b.m.evidence(b.sol)
+	cubicLike := func(k Kind) bool { return k == Cubic || k == Approximant }
+	for i := range all {
+		x := all[i]
+		if i == best || x.m.reportedKind() == b.m.reportedKind() || x.m.evidence(x.sol) <= cb || x.sol.indexed < b.sol.indexed {
+			continue
+		}
+		// A significant rival was passed over on purpose (preferSubCell);
+		// cubic cells and approximants are one family of explanations.
+		if (x.basis != "" && x.chance <= maxChance) || (cubicLike(x.m.kind) && cubicLike(b.m.kind)) {
+			continue
+		}
+		shared := 0
+		for k, j := range b.sol.assign {
+			if j >= 0 && k < len(x.sol.assign) && x.sol.assign[k] >= 0 {
+				shared++
+			}
+		}
+		if 5*shared >= 4*b.sol.indexed {
+			return true
+		}
+	}
+	return false
 }
