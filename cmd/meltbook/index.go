@@ -145,6 +145,9 @@ func phaseTitle(ph indexing.Phase) string {
 		return fmt.Sprintf("cubic %s approximant of order %s, a = %.4f ± %.4f Å (ideal %.3f Å for %s)",
 			ph.Lattice, ph.Order, ph.AA, ph.AUncertaintyA, ph.IdealAA, ph.ApproximantOf)
 	}
+	if ph.Kind != indexing.Cubic || ph.Phase != "" {
+		return ph.Title()
+	}
 	return fmt.Sprintf("cubic %s, a = %.4f ± %.4f Å", ph.Lattice, ph.AA, ph.AUncertaintyA)
 }
 

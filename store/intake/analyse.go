@@ -125,6 +125,10 @@ func phase(ph indexing.Phase, at map[float64]int) meltbook.IndexedPhase {
 		Chance: ph.Chance, ChanceBasis: ph.ChanceBasis, ExplainedIntensity: ph.ExplainedIntensity,
 		RMSResidualDeg: ph.RMSResidualDeg, PhasonStrain: ph.PhasonTrend != nil && ph.PhasonTrend.Flagged,
 		Assignments: []meltbook.PeakAssignment{},
+		Phase:       ph.Phase, SpaceGroup: ph.SpaceGroup, Reference: ph.Reference,
+		ConstantB: ph.BA, ConstantSUB: ph.BUncertaintyA, ConstantC: ph.CA, ConstantSUC: ph.CUncertaintyA,
+		AlphaDeg: ph.AlphaDeg, AlphaSUDeg: ph.AlphaUncertaintyDeg, BetaDeg: ph.BetaDeg, BetaSUDeg: ph.BetaUncertaintyDeg,
+		GammaDeg: ph.GammaDeg, GammaSUDeg: ph.GammaUncertaintyDeg,
 	}
 	if ph.Kind == indexing.Icosahedral {
 		out.ConstantA, out.ConstantSUA = ph.QuasilatticeConstantA, ph.QuasilatticeConstantUncertaintyA
@@ -138,7 +142,7 @@ func phase(ph indexing.Phase, at map[float64]int) meltbook.IndexedPhase {
 			continue
 		}
 		a := meltbook.PeakAssignment{Peak: i, TwoThetaDeg: p.TwoThetaDeg, CalculatedTwoThetaDeg: p.CalculatedTwoThetaDeg,
-			ResidualDeg: p.ResidualDeg, DAngstrom: p.DSpacingA}
+			ResidualDeg: p.ResidualDeg, DAngstrom: p.DSpacingA, PredictedIntensity: p.PredictedIntensity}
 		switch {
 		case p.Icosahedral != nil:
 			l := p.Icosahedral
@@ -151,6 +155,9 @@ func phase(ph indexing.Phase, at map[float64]int) meltbook.IndexedPhase {
 				a.Label = fmt.Sprintf("%d %d %d", h[0], h[1], h[2])
 			}
 			a.Detail = fmt.Sprintf("h² + k² + l² = %d", h[0]*h[0]+h[1]*h[1]+h[2]*h[2])
+			if ph.Kind != indexing.Cubic && ph.Kind != indexing.Approximant {
+				a.Detail = fmt.Sprintf("reflection %d %d %d", h[0], h[1], h[2])
+			}
 		}
 		out.Assignments = append(out.Assignments, a)
 	}
