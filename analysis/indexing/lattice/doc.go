@@ -36,7 +36,8 @@
 // the same lattice in another setting.
 //
 // A tetragonal or rhombohedral solution whose metric is cubic (c = a;
-// c = a√2 for I; c/a = √6, √(3/2) or √(3/8) for R in hexagonal axes) is
+// c = a/√2 for P, whose lines hold those of cubic I; c = a√2 for I;
+// c/a = √6, √(3/2) or √(3/8) for R in hexagonal axes) is
 // kept and marked PseudoCubic: the cubic indexer owns such lines. An
 // orthorhombic solution with two equal edges, or a C cell with b = a√3, is
 // dropped because the tetragonal or hexagonal search describes it.

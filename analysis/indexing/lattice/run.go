@@ -79,6 +79,10 @@ type found struct {
 	vol float64
 }
 
+func (f found) score(peaks int) float64 {
+	return f.t.m20 * math.Pow(float64(f.t.indexed)/float64(peaks), 6)
+}
+
 // Search indexes peaks with the lattices of opt and returns the solutions
 // ranked best first by
 //
@@ -141,13 +145,13 @@ func Search(peaks []Peak, opt Options) ([]Solution, error) {
 			kept = append(kept, f)
 		}
 	}
+	sort.SliceStable(kept, func(i, j int) bool { return kept[i].score(len(peaks)) > kept[j].score(len(peaks)) })
+	if len(kept) > opt.MaxSolutions {
+		kept = kept[:opt.MaxSolutions]
+	}
 	out := make([]Solution, 0, len(kept))
 	for _, f := range kept {
 		out = append(out, solution(f, peaks))
-	}
-	sort.SliceStable(out, func(i, j int) bool { return out[i].Score > out[j].Score })
-	if len(out) > opt.MaxSolutions {
-		out = out[:opt.MaxSolutions]
 	}
 	return out, nil
 }
@@ -210,6 +214,8 @@ func higherSymmetry(cen Centring, p [3]float64) bool {
 // pseudoCubic reports a tetragonal or rhombohedral metric that is cubic:
 //
 //	tetragonal P, I   c/a = 1
+//	tetragonal P      c/a = 1/√2        (its lines 2(h² + k²) + 4l² hold every
+//	                                     line of cubic I with a = a_t√2)
 //	tetragonal I      c/a = √2          (cubic F: a_t = a/√2, c_t = a)
 //	hexagonal R       c/a = √6          (cubic F: a_h = a/√2, c_h = a√3)
 //	                  c/a = √(3/2)      (cubic P: a_h = a√2, c_h = a√3)
@@ -227,7 +233,7 @@ func pseudoCubic(sys crystal.System, cen Centring, cell, sigma crystal.Cell) boo
 	var ratios []float64
 	switch {
 	case sys == crystal.Tetragonal && cen == Primitive:
-		ratios = []float64{1}
+		ratios = []float64{1, 1 / math.Sqrt2}
 	case sys == crystal.Tetragonal && cen == BodyCentred:
 		ratios = []float64{1, math.Sqrt2}
 	case sys == crystal.Hexagonal && cen == Rhombohedral:
@@ -280,7 +286,7 @@ func solution(f found, peaks []Peak) Solution {
 		}
 	}
 	sol.PseudoCubic = pseudoCubic(sys, f.fam.cen, cell, unc)
-	sol.Score = sol.M20 * math.Pow(float64(sol.Indexed)/float64(len(peaks)), 6)
+	sol.Score = f.score(len(peaks))
 	return sol
 }
 

@@ -97,7 +97,7 @@ type searcher struct {
 	q, tol     []float64 // Q = 1/d² and its tolerance 2q·δq, Å⁻²
 	lo, hi     [3]float64
 	maxVolume  float64
-	table      []uint8     // tetragonal, hexagonal: bit l mod 6 set when some orbit with this m and l is allowed
+	table      []uint8 // tetragonal, hexagonal: bit l mod 6 set when some orbit with this m and l is allowed
 	hyps       [][3]float64
 	proposal   int
 	misses     int

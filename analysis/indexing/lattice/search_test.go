@@ -70,7 +70,7 @@ func TestSearchRecoversCells(t *testing.T) {
 			name: "Al6Mn-like", sys: crystal.Orthorhombic, cen: lattice.BaseCentred, a: 6.50, b: 7.55, c: 8.87,
 			lines:  func(*testing.T) []refLine { return orthorhombicCLines(7.55, 6.50, 8.87, 2.0, 3) },
 			remove: []int{6, 13}, impure: []float64{3.93, 2.339},
-			opt:    lattice.Options{Systems: []crystal.System{crystal.Orthorhombic}, Centrings: []lattice.Centring{lattice.BaseCentred}},
+			opt: lattice.Options{Systems: []crystal.System{crystal.Orthorhombic}, Centrings: []lattice.Centring{lattice.BaseCentred}},
 		},
 	}
 	for _, tc := range cases {
