@@ -104,9 +104,9 @@ func TestNumber(t *testing.T) {
 		{".", false, 0, 0, false, cif.ErrUnknown},
 		{"?", true, 0, 0, false, cif.ErrNotNumber},
 		{"1.2(x)", false, 0, 0, false, cif.ErrNotNumber},
-		{"Inf", false, 0, 0, false, cif.ErrNotNumber},
+		{"Inf", false, 0, 0, false, cif.ErrNotFinite},
 		{"0x10", false, 0, 0, false, cif.ErrNotNumber},
-		{"1e999", false, 0, 0, false, cif.ErrNotNumber},
+		{"1e999", false, 0, 0, false, cif.ErrNotFinite},
 	}
 	for _, c := range cases {
 		v, su, has, err := cif.Value{Text: c.text, Quoted: c.quoted}.Number()

@@ -13,13 +13,18 @@ var ErrUnknown = errors.New("value is unknown (? or .)")
 // ErrNotNumber is returned by Number for text that is not a CIF number.
 var ErrNotNumber = errors.New("not a number")
 
+// ErrNotFinite is returned by Number for a value or uncertainty beyond
+// the range of a float64, and for text spelling NaN or infinity.
+var ErrNotFinite = errors.New("not a finite number")
+
 // Number reads a CIF numeric value with an optional standard uncertainty
 // in parentheses, which counts in units of the last digit of the mantissa:
 //
 //	"28.4400(5)" = 28.44 ± 0.0005    "1.5e3(2)" = 1500 ± 200
 //
 // hasSU tells whether an uncertainty was given. "?" and "." give
-// ErrUnknown; anything else that is not a finite decimal number
+// ErrUnknown; a number too large for a float64, or NaN or infinity
+// spelt out, ErrNotFinite; anything else that is not a decimal number
 // ErrNotNumber.
 //
 // Reference: IUCr, CIF 1.1 syntax specification, numeric values.
@@ -41,18 +46,25 @@ func (v Value) Number() (x, su float64, hasSU bool, err error) {
 		}
 		num = text[:open]
 		n, perr := strconv.ParseFloat(digits, 64)
-		if perr != nil {
-			return 0, 0, false, ErrNotNumber
+		if perr != nil || math.IsInf(n, 0) {
+			return 0, 0, false, ErrNotFinite
 		}
 		su = n * math.Pow(10, float64(exponentOf(num)-decimalsOf(num)))
+		if math.IsInf(su, 0) || math.IsNaN(su) {
+			return 0, 0, false, ErrNotFinite
+		}
 		hasSU = true
 	}
 	if !isDecimal(num) {
+		switch strings.TrimLeft(strings.ToLower(num), "+-") {
+		case "nan", "inf", "infinity":
+			return 0, 0, false, ErrNotFinite
+		}
 		return 0, 0, false, ErrNotNumber
 	}
 	x, perr := strconv.ParseFloat(num, 64)
-	if perr != nil || math.IsInf(x, 0) || math.IsInf(su, 0) || math.IsNaN(su) {
-		return 0, 0, false, ErrNotNumber
+	if perr != nil || math.IsInf(x, 0) {
+		return 0, 0, false, ErrNotFinite
 	}
 	return x, su, hasSU, nil
 }

@@ -1,9 +1,9 @@
 package scanfile
 
 import (
+	"errors"
 	"fmt"
 	"math"
-	"strconv"
 	"strings"
 
 	"meltbook/analysis/cif"
@@ -241,68 +241,20 @@ func checkWavelengths(file string, ws []Wavelength, at cif.Value) error {
 }
 
 // cifNumber reads a CIF numeric value with an optional standard
-// uncertainty in parentheses, which counts in units of the last digit of
-// the mantissa: "28.4400(5)" is 28.44 ± 0.0005, "1.5e3(2)" is 1500 ± 200.
+// uncertainty (cif.Value.Number) and reports a fault with the file, line,
+// column and tag.
 func cifNumber(file string, t cif.Value, tag string) (v, su float64, hasSU bool, err error) {
-	fail := func(e error) (float64, float64, bool, error) {
-		return 0, 0, false, &Error{File: file, Line: t.Line, Column: t.Col, Err: kindOf(e),
-			Msg: fmt.Sprintf("%s: %v", tag, e)}
+	v, su, hasSU, err = t.Number()
+	if err == nil {
+		return v, su, hasSU, nil
 	}
-	text := t.Text
-	if !t.Quoted && (text == "?" || text == ".") {
-		return fail(&valueError{text, ErrMissing})
+	kind := ErrNotNumber
+	switch {
+	case errors.Is(err, cif.ErrUnknown):
+		kind = ErrMissing
+	case errors.Is(err, cif.ErrNotFinite):
+		kind = ErrNotFinite
 	}
-	num := text
-	if open := strings.IndexByte(text, '('); open >= 0 {
-		if !strings.HasSuffix(text, ")") || open+2 > len(text)-1 {
-			return fail(&valueError{text, ErrNotNumber})
-		}
-		digits := text[open+1 : len(text)-1]
-		for i := 0; i < len(digits); i++ {
-			if digits[i] < '0' || digits[i] > '9' {
-				return fail(&valueError{text, ErrNotNumber})
-			}
-		}
-		num = text[:open]
-		n, perr := strconv.ParseFloat(digits, 64)
-		if perr != nil || math.IsInf(n, 0) {
-			return fail(&valueError{text, ErrNotFinite})
-		}
-		su = n * math.Pow(10, float64(exponentOf(num)-decimalsOf(num)))
-		if math.IsInf(su, 0) || math.IsNaN(su) {
-			return fail(&valueError{text, ErrNotFinite})
-		}
-		hasSU = true
-	}
-	v, perr := parseDecimal(num)
-	if perr != nil {
-		return fail(&valueError{text, kindOf(perr)})
-	}
-	return v, su, hasSU, nil
-}
-
-// decimalsOf counts the digits after the decimal point of a mantissa.
-func decimalsOf(num string) int {
-	m := num
-	if i := strings.IndexAny(m, "eE"); i >= 0 {
-		m = m[:i]
-	}
-	if i := strings.IndexByte(m, '.'); i >= 0 {
-		return len(m) - i - 1
-	}
-	return 0
-}
-
-// exponentOf returns the decimal exponent of a number, 0 when it has none
-// or it is out of reach.
-func exponentOf(num string) int {
-	i := strings.IndexAny(num, "eE")
-	if i < 0 {
-		return 0
-	}
-	e, err := strconv.Atoi(num[i+1:])
-	if err != nil || e > 400 || e < -400 {
-		return 0
-	}
-	return e
+	e := &valueError{t.Text, kind}
+	return 0, 0, false, &Error{File: file, Line: t.Line, Column: t.Col, Err: kind, Msg: fmt.Sprintf("%s: %v", tag, e)}
 }
