@@ -6,7 +6,9 @@ import (
 	"math/rand/v2"
 	"sort"
 
+	"meltbook/analysis/crystal"
 	"meltbook/analysis/indexing/icosa"
+	"meltbook/analysis/indexing/lattice"
 )
 
 // Structured decoys: peak lists made from patterns of random crystals and
@@ -157,19 +159,20 @@ func crystalDecoy(rng *rand.Rand, kind Kind, lambda, lo, hi float64) []Peak {
 	case Triclinic:
 		alpha, beta, gamma = 75+30*rng.Float64(), 75+30*rng.Float64(), 75+30*rng.Float64()
 	}
-	centring := centrings[rng.IntN(len(centrings))]
-	g, ok := reciprocalMetric(a, b, c, alpha, beta, gamma)
-	if !ok {
+	centring := lattice.Centring(centrings[rng.IntN(len(centrings))])
+	cell := crystal.Cell{A: a, B: b, C: c, Alpha: alpha, Beta: beta, Gamma: gamma}
+	if cell.Validate() != nil {
 		return nil
 	}
+	g := cell.ReciprocalMetric()
 	nAtoms := 2 + rng.IntN(5)
 	atoms := make([][3]float64, nAtoms)
 	for j := range atoms {
 		atoms[j] = [3]float64{rng.Float64(), rng.Float64(), rng.Float64()}
 	}
 	qLo, qHi := qAt(lo, lambda), qAt(hi, lambda)
-	// Index bounds from the reciprocal metric: |h| ≤ qmax/√g*ᵢᵢ⁻¹ … use
-	// the direct edges, |h| ≤ qmax·a (a bound for any angles).
+	// |h| = |q·a| ≤ q·a for any angles, so q_max times each edge bounds
+	// its index.
 	hMax, kMax, lMax := int(qHi*a)+1, int(qHi*b)+1, int(qHi*c)+1
 	var out []Peak
 	for h := 0; h <= hMax; h++ {
@@ -180,7 +183,7 @@ func crystalDecoy(rng *rand.Rand, kind Kind, lambda, lo, hi float64) []Peak {
 				if h == 0 && (k < 0 || (k == 0 && l <= 0)) {
 					continue
 				}
-				if !allowedCentring(centring, h, k, l) {
+				if !lattice.Allowed(h, k, l, centring) {
 					continue
 				}
 				hh := [3]float64{float64(h), float64(k), float64(l)}
@@ -207,42 +210,6 @@ func crystalDecoy(rng *rand.Rand, kind Kind, lambda, lo, hi float64) []Peak {
 		}
 	}
 	return out
-}
-
-// allowedCentring applies the reflection conditions of the lattice
-// centrings (R: obverse setting in hexagonal axes, −h + k + l = 3n).
-func allowedCentring(c byte, h, k, l int) bool {
-	switch c {
-	case 'I':
-		return (h+k+l)%2 == 0
-	case 'F':
-		return (h+k)%2 == 0 && (k+l)%2 == 0
-	case 'C':
-		return (h+k)%2 == 0
-	case 'R':
-		return ((-h+k+l)%3+3)%3 == 0
-	}
-	return true
-}
-
-// reciprocalMetric returns G* of a cell (Å, degrees), and false for an
-// impossible set of angles.
-func reciprocalMetric(a, b, c, alpha, beta, gamma float64) ([3][3]float64, bool) {
-	ca, cb, cg := math.Cos(alpha*math.Pi/180), math.Cos(beta*math.Pi/180), math.Cos(gamma*math.Pi/180)
-	gd := [3][3]float64{{a * a, a * b * cg, a * c * cb}, {a * b * cg, b * b, b * c * ca}, {a * c * cb, b * c * ca, c * c}}
-	det := gd[0][0]*(gd[1][1]*gd[2][2]-gd[1][2]*gd[2][1]) - gd[0][1]*(gd[1][0]*gd[2][2]-gd[1][2]*gd[2][0]) + gd[0][2]*(gd[1][0]*gd[2][1]-gd[1][1]*gd[2][0])
-	if !(det > 1e-6*a*a*b*b*c*c) {
-		return [3][3]float64{}, false
-	}
-	var inv [3][3]float64
-	for i := 0; i < 3; i++ {
-		for j := 0; j < 3; j++ {
-			i1, i2 := (j+1)%3, (j+2)%3
-			j1, j2 := (i+1)%3, (i+2)%3
-			inv[i][j] = (gd[i1][j1]*gd[i2][j2] - gd[i1][j2]*gd[i2][j1]) / det
-		}
-	}
-	return inv, true
 }
 
 // icosahedralDecoy computes the lines of a random icosahedral phase: a

@@ -147,33 +147,27 @@ func newKnownModel(k *KnownPhase, lambda float64) *model {
 	for _, l := range m.lines {
 		fmt.Fprintf(h, "|%.6f:%.4f", l.g, l.w)
 	}
+	fmt.Fprintf(h, "@%.6f", lambda)
 	m.id = fmt.Sprintf("library-%x", h.Sum64())
 	m.finish()
 	return m
 }
 
-// knownModels builds (or takes from the cache) the models of the library
-// phases at wavelength lambda.
+// knownModels builds the models of the library phases at wavelength
+// lambda. They are built afresh for every call (a few hundred lines each);
+// their random-list scores are kept by model id like every model's.
 func knownModels(lib []KnownPhase, lambda float64) []*model {
 	out := make([]*model, 0, len(lib))
 	for i := range lib {
-		k := &lib[i]
-		m := newKnownModel(k, lambda)
-		cached := cachedModel(m.id+fmt.Sprintf("@%.6f", lambda), func() *model { return m })
-		// The cached model may hold another slice's phase of the same
-		// content; point it at this call's.
-		if cached.known != k {
-			c := *cached
-			c.known = k
-			cached = &c
-		}
-		cached.alternatives = len(lib)
-		out = append(out, cached)
+		m := newKnownModel(&lib[i], lambda)
+		m.alternatives = len(lib)
+		out = append(out, m)
 	}
 	return out
 }
 
-// knownSystemKind returns the reported kind of a library model's phase.
+// reportedKind returns the kind a phase of the model is reported as: a
+// library phase's crystal system, else the model's kind.
 func (m *model) reportedKind() Kind {
 	if m.known != nil {
 		return m.known.System

@@ -55,17 +55,14 @@ func minIndexed(k Kind) int {
 	return 3
 }
 
-// sizeOf returns how many models of the same kind were tried, for the
-// Šidák correction and the model-choice criterion.
-func (m *model) sizeOf() int { return m.latticesOfKind() }
-
 // approximantLattices are the cubic lattice types sought for approximants:
 // the known cubic approximants are primitive (α-AlMnSi, Pm-3) or
 // body-centred (Cd6Yb, Im-3).
 var approximantLattices = []cubic.Lattice{cubic.Primitive, cubic.BodyCentred}
 
-// latticesOfKind is the number of lattice types tried for the model's
-// kind, for the Šidák correction.
+// latticesOfKind is the number of models tried of the model's kind (its
+// lattice types, or the library's phases), for the Šidák correction and
+// the model-choice criterion.
 func (m *model) latticesOfKind() int {
 	switch m.kind {
 	case Approximant:
@@ -271,7 +268,7 @@ func (m *model) evidence(sol solution) float64 {
 	if sol.sigFloorA > 0 && width > sol.sigFloorA {
 		occam = math.Log(width / sol.sigFloorA)
 	}
-	return sol.score - math.Log(float64(m.sizeOf())) - occam
+	return sol.score - math.Log(float64(m.latticesOfKind())) - occam
 }
 
 func summary(m *model, sol solution, c float64) ModelSummary {
