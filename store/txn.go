@@ -116,13 +116,18 @@ type change struct {
 	field, before, after string
 }
 
-// record appends one history row.
+// record appends one history row. A meltID of 0 records a change of the
+// notebook as a whole (melt_id NULL), such as a setting.
 func (t *txn) record(meltID int64, entity string, entityID int64, action string, c change, why string) (meltbook.HistoryEntry, error) {
 	h := meltbook.HistoryEntry{At: t.now, Who: t.who, Entity: entity, EntityID: entityID,
 		Action: action, Field: c.field, Before: c.before, After: c.after, Why: why}
+	var melt any = meltID
+	if meltID == 0 {
+		melt = nil
+	}
 	id, err := t.insert(`INSERT INTO history (changed_at, who, melt_id, entity, entity_id, action, field, before_value, after_value, why)
 		VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`,
-		formatTime(t.now), t.who, meltID, entity, entityID, action, c.field, c.before, c.after, why)
+		formatTime(t.now), t.who, melt, entity, entityID, action, c.field, c.before, c.after, why)
 	if err != nil {
 		return h, fmt.Errorf("record history: %w", err)
 	}
