@@ -20,7 +20,11 @@
 // that is not a notebook (Invalid), and a notebook from a newer meltbook
 // (Conflict), which it leaves untouched. Migrations are the numbered files
 // of package migrations, each applied in its own transaction and recorded
-// with its time.
+// with its time. A migration runs on one connection with foreign-key
+// enforcement off and is checked with PRAGMA foreign_key_check before it
+// commits, as SQLite's procedure for rebuilding a table asks (003 rebuilds
+// indexed_phase to widen its CHECKs); one that leaves a reference dangling
+// is rolled back with an error naming the table.
 //
 // # Writing
 //
@@ -42,6 +46,18 @@
 //	ConfirmProposal, RejectProposal  a person's verdict on it
 //	AmendMelt, AmendSample, AmendStep, AmendOutcome,
 //	AmendMeasuredComposition, AmendSymmetryObservation, AmendNote
+//	AddScan, AddIndexing             a scan with its indexing, a further indexing
+//
+// An indexing keeps every field of each phase call (meltbook.IndexedPhase):
+// kind (icosahedral, approximant or one of the seven crystal systems),
+// centring (P, I, F, A, B, C, R), the library phase's name, space group and
+// reference, the cell constants the kind leaves free with their
+// uncertainties, the whole-pattern Rwp, and per assignment the line's
+// predicted intensity; a model tried keeps the library phase it stood for.
+// A call is checked before anything is written (an unknown kind is Invalid
+// on "phases[i].kind"). Cell constants the kind fixes (0) are stored as
+// NULL; Rwp and predicted intensities are NULL exactly when nil, so a
+// computed 0 reads back as 0.
 //
 // Amendments take a meltbook.*Update (nil fields unchanged) and a reason,
 // which is required; they return the history rows written, one per field,
@@ -57,15 +73,18 @@
 // # Export and import
 //
 // Export writes the whole notebook as one JSON document (see Document for
-// the format); Import reads one into an empty notebook, keeping ids, codes,
-// times and history, so that export, import, export gives the same bytes.
+// the format, now version 3); Import reads one of version 1, 2 or 3 into an
+// empty notebook, keeping ids, codes, times and history, so that export,
+// import, export gives the same bytes.
 //
 // # Portability
 //
 // The schema and queries use standard SQL that PostgreSQL also accepts,
 // except where noted in the migration files and here: ids are SQLite row
 // ids (a NULL id asks SQLite for the next one), instants are fixed-width
-// UTC text, the history's append-only triggers use SQLite's syntax, and
-// Open and Close use SQLite pragmas (application id, WAL, optimize,
-// ANALYZE with value histograms).
+// UTC text, the history's append-only triggers use SQLite's syntax, a
+// CHECK is widened by rebuilding the table (PostgreSQL alters it in place),
+// and Open and Close use SQLite pragmas (application id, WAL, optimize,
+// ANALYZE with value histograms, foreign_keys and foreign_key_check around
+// migrations).
 package store

@@ -17,7 +17,7 @@ import (
 //
 //	{
 //	  "format": "meltbook-notebook",
-//	  "version": 2,
+//	  "version": 3,
 //	  "melts": [
 //	    {
 //	      "id": 1, "code": "QX-0001", "operator": "...", "created_at": "RFC 3339",
@@ -47,10 +47,17 @@ import (
 //	                                    "requested_by": "...", "radiation": {...},
 //	                                    "tolerance_deg": 0.1, "max_chance": 0.01,
 //	                                    "peaks": [{"id": 1, "two_theta_deg": 38.47, ...}],
-//	                                    "phases": [{"id": 1, "kind": "cubic", "lattice": "F", ...,
-//	                                                "assignments": [{"peak_id": 1, "label": "111", ...}]}],
+//	                                    "phases": [{"id": 1, "kind": "tetragonal", "lattice": "I",
+//	                                                "phase": "θ-Al2Cu", "space_group": "I4/mcm",
+//	                                                "reference": "...", "constant_angstrom": 6.067,
+//	                                                "constant_su_angstrom": 0.002,
+//	                                                "c_angstrom": 4.877, "c_su_angstrom": 0.002, ...,
+//	                                                "whole_pattern_rwp": 0.11,
+//	                                                "assignments": [{"peak_id": 1, "label": "110",
+//	                                                                 "predicted_intensity": 37.5, ...}]}],
 //	                                    "unexplained_peaks": [3],
-//	                                    "models": [{"kind": "cubic", "lattice": "F", ...}],
+//	                                    "models": [{"kind": "tetragonal", "lattice": "I",
+//	                                                "phase": "θ-Al2Cu", ...}],
 //	                                    "proposals": [{"outcome_id": 2, "phase_id": 1,
 //	                                                   "confidence": "medium"}]}]}]
 //	        }
@@ -74,13 +81,33 @@ import (
 //
 // Version 2 added the diffraction scans, listed under their sample with
 // their points and every indexing (see DocScan); a proposal's outcome is
-// listed among the sample's outcomes and named by id. A version 1 document
-// (no scans) still imports.
+// listed among the sample's outcomes and named by id.
+//
+// Version 3 keeps every field of a phase call: a phase's kind may be any
+// crystal system (tetragonal, hexagonal, orthorhombic, monoclinic,
+// triclinic, rhombohedral beside icosahedral, approximant and cubic) and
+// its lattice any centring (P, I, F, A, B, C, R); a phase may name a phase
+// of known structure ("phase", "space_group", "reference"), give the cell
+// constants its kind leaves free with their uncertainties ("b_angstrom",
+// "b_su_angstrom", "c_angstrom", "c_su_angstrom", "alpha_deg",
+// "alpha_su_deg", "beta_deg", "beta_su_deg", "gamma_deg", "gamma_su_deg";
+// absent when the kind fixes them) and the Rwp of a whole-pattern check
+// ("whole_pattern_rwp", a fraction; absent when none was run). An
+// assignment may give the line's "predicted_intensity" (the phase's
+// strongest predicted line = 100; absent when none was computed, so that
+// a computed 0 stays 0), and a model tried the library "phase" it stood
+// for.
+//
+// Version 1 (no scans) and version 2 documents still import; one that
+// holds what a later version brought (scans in version 1, the fields of
+// version 3 in version 2) is refused as not what it says it is. A document
+// of a version above DocumentVersion is refused as written by a newer
+// meltbook.
 
 // DocumentFormat and DocumentVersion identify an exported notebook.
 const (
 	DocumentFormat  = "meltbook-notebook"
-	DocumentVersion = 2
+	DocumentVersion = 3
 )
 
 // Document is an exported notebook.

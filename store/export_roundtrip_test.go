@@ -5,6 +5,7 @@ import (
 	"context"
 	"database/sql"
 	"encoding/json"
+	"fmt"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -119,7 +120,7 @@ func TestImportRefusesBadDocuments(t *testing.T) {
 		{"not JSON", "{\n  \"format\": \"meltbook-notebook\",\n  \"version\": 1,\n  \"melts\": [\n    {,\n", meltbook.Invalid, "document line 5, column 6"},
 		{"unknown field", strings.Replace(good, `"label": "ribbon piece"`, `"lable": "ribbon piece"`, 1), meltbook.Invalid, ""},
 		{"other format", strings.Replace(good, `"format": "meltbook-notebook"`, `"format": "spreadsheet"`, 1), meltbook.Invalid, "format"},
-		{"newer version", strings.Replace(good, `"version": 2`, `"version": 7`, 1), meltbook.Conflict, "version"},
+		{"newer version", strings.Replace(good, fmt.Sprintf(`"version": %d`, store.DocumentVersion), `"version": 7`, 1), meltbook.Conflict, "version"},
 		{"bad step", strings.Replace(good, `"name": "wheel-speed",
                   "si": 30`, `"name": "wheel-speed",
                   "si": -30`, 1), meltbook.Invalid, "melts[0].samples[0].steps[1].melt-spin.wheel-speed"},

@@ -68,6 +68,10 @@ type DocAssignment struct {
 	DAngstrom             float64 `json:"d_angstrom"`
 	Label                 string  `json:"label"`
 	Detail                string  `json:"detail,omitempty"`
+	// PredictedIntensity is the line's computed intensity, the phase's
+	// strongest predicted line = 100; absent when none was computed
+	// (version 3).
+	PredictedIntensity *float64 `json:"predicted_intensity,omitempty"`
 }
 
 // DocProposal links an automatic outcome, listed among the sample's
@@ -202,21 +206,13 @@ func (t *txn) exportScans(sample func(id int64) *DocSample) error {
 	}
 	var phases []phaseRow
 	phaseByID := map[int64]*DocPhase{}
-	err = t.each(`SELECT indexing_id, id, kind, lattice, approximant_order, approximant_of, ideal_a_angstrom,
-			constant_angstrom, constant_su_angstrom, a6_angstrom, zero_shift_deg, zero_shift_su_deg, figure_of_merit,
-			chance, chance_basis, explained_intensity, rms_residual_deg, phason_strain
-		FROM indexed_phase ORDER BY indexing_id, position`, func(rows *sql.Rows) error {
+	err = t.each(`SELECT `+phaseColumns+`, indexing_id FROM indexed_phase ORDER BY indexing_id, position`, func(rows *sql.Rows) error {
 		var xID int64
 		ph := &DocPhase{Assignments: []DocAssignment{}}
-		var ideal, a6 sql.NullFloat64
-		var phason int
 		p := &ph.IndexedPhase
-		if err := rows.Scan(&xID, &p.ID, &p.Kind, &p.Lattice, &p.Order, &p.ApproximantOf, &ideal, &p.ConstantA,
-			&p.ConstantSUA, &a6, &p.ZeroShiftDeg, &p.ZeroShiftSUDeg, &p.FigureOfMerit, &p.Chance, &p.ChanceBasis,
-			&p.ExplainedIntensity, &p.RMSResidualDeg, &phason); err != nil {
+		if err := scanPhase(scanExtra{rows, []any{&xID}}, p); err != nil {
 			return err
 		}
-		p.IdealAA, p.SixDimensionalConstantA, p.PhasonStrain = ideal.Float64, a6.Float64, phason == 1
 		phases = append(phases, phaseRow{xID, ph})
 		phaseByID[p.ID] = ph
 		return nil
@@ -224,13 +220,17 @@ func (t *txn) exportScans(sample func(id int64) *DocSample) error {
 	if err != nil {
 		return err
 	}
-	err = t.each(`SELECT a.phase_id, a.peak_id, a.calculated_two_theta_deg, a.residual_deg, a.d_angstrom, a.label, a.detail
+	err = t.each(`SELECT a.phase_id, a.peak_id, a.calculated_two_theta_deg, a.residual_deg, a.d_angstrom, a.label, a.detail,
+			a.predicted_intensity
 		FROM peak_assignment a JOIN peak p ON p.id = a.peak_id ORDER BY a.phase_id, p.position`, func(rows *sql.Rows) error {
 		var phaseID int64
 		var a DocAssignment
-		if err := rows.Scan(&phaseID, &a.PeakID, &a.CalculatedTwoThetaDeg, &a.ResidualDeg, &a.DAngstrom, &a.Label, &a.Detail); err != nil {
+		var predicted sql.NullFloat64
+		if err := rows.Scan(&phaseID, &a.PeakID, &a.CalculatedTwoThetaDeg, &a.ResidualDeg, &a.DAngstrom, &a.Label, &a.Detail,
+			&predicted); err != nil {
 			return err
 		}
+		a.PredictedIntensity = floatPtr(predicted)
 		ph := phaseByID[phaseID]
 		ph.Assignments = append(ph.Assignments, a)
 		return nil
@@ -251,11 +251,10 @@ func (t *txn) exportScans(sample func(id int64) *DocSample) error {
 	if err != nil {
 		return err
 	}
-	err = t.each(`SELECT indexing_id, kind, lattice, approximant_order, scale_angstrom, indexed_peaks, figure_of_merit, chance
-		FROM indexing_model ORDER BY indexing_id, position`, func(rows *sql.Rows) error {
+	err = t.each(`SELECT `+modelColumns+`, indexing_id FROM indexing_model ORDER BY indexing_id, position`, func(rows *sql.Rows) error {
 		var xID int64
 		var m meltbook.ModelTried
-		if err := rows.Scan(&xID, &m.Kind, &m.Lattice, &m.Order, &m.ScaleA, &m.IndexedPeaks, &m.FigureOfMerit, &m.Chance); err != nil {
+		if err := scanModel(scanExtra{rows, []any{&xID}}, &m); err != nil {
 			return err
 		}
 		x := indexingByID[xID]
@@ -333,7 +332,7 @@ func checkDocScans(ds *DocSample, version int, ids map[string]idSet) error {
 		}
 		for j := range sc.Indexings {
 			xPlace := fmt.Sprintf("%s.indexings[%d]", place, j)
-			if err := checkDocIndexing(&sc.Indexings[j], j+1, outcomes, ids); err != nil {
+			if err := checkDocIndexing(&sc.Indexings[j], j+1, version, outcomes, ids); err != nil {
 				return at(xPlace, err)
 			}
 		}
@@ -341,7 +340,7 @@ func checkDocScans(ds *DocSample, version int, ids map[string]idSet) error {
 	return nil
 }
 
-func checkDocIndexing(x *DocIndexing, version int, outcomes map[int64]*DocOutcome, ids map[string]idSet) error {
+func checkDocIndexing(x *DocIndexing, version, docVersion int, outcomes map[int64]*DocOutcome, ids map[string]idSet) error {
 	if err := ids["indexing"].add("indexing", x.ID); err != nil {
 		return err
 	}
@@ -380,26 +379,38 @@ func checkDocIndexing(x *DocIndexing, version int, outcomes map[int64]*DocOutcom
 		if err := ids["phase"].add("phase", ph.ID); err != nil {
 			return at(pPlace, err)
 		}
-		switch {
-		case ph.Kind != meltbook.ModelIcosahedral && ph.Kind != meltbook.ModelApproximant && ph.Kind != meltbook.ModelCubic:
-			return at(pPlace, meltbook.Errorf(invalid, "kind", "%q is not icosahedral, approximant or cubic", ph.Kind))
-		case ph.Lattice != "P" && ph.Lattice != "I" && ph.Lattice != "F":
-			return at(pPlace, meltbook.Errorf(invalid, "lattice", "%q is not P, I or F", ph.Lattice))
-		case !(ph.Chance >= 0 && ph.Chance <= 1):
-			return at(pPlace, meltbook.Errorf(invalid, "chance", "%g is not a probability", ph.Chance))
-		case len(ph.IndexedPhase.Assignments) > 0:
+		if len(ph.IndexedPhase.Assignments) > 0 {
 			return at(pPlace, meltbook.Errorf(invalid, "assignments", "the phase's assignments are listed once"))
+		}
+		if err := checkPhase(&ph.IndexedPhase); err != nil {
+			return at(pPlace, err)
+		}
+		if docVersion < 3 {
+			if err := checkBeforeVersion3(ph); err != nil {
+				return at(pPlace, err)
+			}
 		}
 		assigned := map[int64]bool{}
 		for a := range ph.Assignments {
+			aPlace := fmt.Sprintf("%s.assignments[%d]", pPlace, a)
 			id := ph.Assignments[a].PeakID
 			if !peaks[id] || assigned[id] {
-				return at(fmt.Sprintf("%s.assignments[%d]", pPlace, a),
-					meltbook.Errorf(invalid, "peak_id", "%d is not a peak of this indexing or is assigned twice", id))
+				return at(aPlace, meltbook.Errorf(invalid, "peak_id", "%d is not a peak of this indexing or is assigned twice", id))
 			}
 			assigned[id] = true
+			if err := checkPredictedIntensity(ph.Assignments[a].PredictedIntensity); err != nil {
+				return at(aPlace, err)
+			}
 		}
 		phases[ph.ID] = true
+	}
+	if docVersion < 3 {
+		for k, m := range x.Models {
+			if m.Phase != "" {
+				return at(fmt.Sprintf("models[%d]", k), meltbook.Errorf(invalid, "phase",
+					"a version %d document names no library phases; they came with version 3", docVersion))
+			}
+		}
 	}
 	unexplained := map[int64]bool{}
 	for k, id := range x.Unexplained {
@@ -423,6 +434,46 @@ func checkDocIndexing(x *DocIndexing, version int, outcomes map[int64]*DocOutcom
 			return at(pPlace, meltbook.Errorf(invalid, "confidence", "%q is not high, medium or low", p.Confidence))
 		}
 		ids["proposal"][p.OutcomeID] = true
+	}
+	return nil
+}
+
+// checkBeforeVersion3 refuses, in a document older than version 3, what
+// version 3 brought: phases other than icosahedral, approximant and cubic
+// ones, centrings other than P, I and F, library phase names, space groups
+// and references, the further cell constants, Rwp and predicted
+// intensities.
+func checkBeforeVersion3(ph *DocPhase) error {
+	came := func(field, what string) error {
+		return meltbook.Errorf(invalid, field, "a version 2 document holds no %s; they came with version 3", what)
+	}
+	p := &ph.IndexedPhase
+	switch {
+	case p.Kind != meltbook.ModelIcosahedral && p.Kind != meltbook.ModelApproximant && p.Kind != meltbook.ModelCubic:
+		return came("kind", p.Kind+" phases")
+	case p.Lattice != "P" && p.Lattice != "I" && p.Lattice != "F":
+		return came("lattice", p.Lattice+"-centred phases")
+	case p.Phase != "" || p.SpaceGroup != "" || p.Reference != "":
+		return came("phase", "library phases (name, space group, reference)")
+	case p.WholePatternRwp != nil:
+		return came("whole_pattern_rwp", "whole-pattern Rwp")
+	}
+	for _, c := range []struct {
+		field string
+		v     float64
+	}{
+		{"b_angstrom", p.ConstantB}, {"b_su_angstrom", p.ConstantSUB}, {"c_angstrom", p.ConstantC}, {"c_su_angstrom", p.ConstantSUC},
+		{"alpha_deg", p.AlphaDeg}, {"alpha_su_deg", p.AlphaSUDeg}, {"beta_deg", p.BetaDeg}, {"beta_su_deg", p.BetaSUDeg},
+		{"gamma_deg", p.GammaDeg}, {"gamma_su_deg", p.GammaSUDeg},
+	} {
+		if c.v != 0 {
+			return came(c.field, "cell constants beyond a")
+		}
+	}
+	for a := range ph.Assignments {
+		if ph.Assignments[a].PredictedIntensity != nil {
+			return at(fmt.Sprintf("assignments[%d]", a), came("predicted_intensity", "predicted intensities"))
+		}
 	}
 	return nil
 }
@@ -480,26 +531,18 @@ func (t *txn) importIndexing(scanID int64, x *DocIndexing) error {
 	}
 	for i := range x.Phases {
 		ph := &x.Phases[i]
-		if _, err := t.exec(`INSERT INTO indexed_phase (id, indexing_id, position, kind, lattice, approximant_order, approximant_of,
-				ideal_a_angstrom, constant_angstrom, constant_su_angstrom, a6_angstrom, zero_shift_deg, zero_shift_su_deg,
-				figure_of_merit, chance, chance_basis, explained_intensity, rms_residual_deg, phason_strain)
-			VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-			ph.ID, x.ID, i, ph.Kind, ph.Lattice, ph.Order, ph.ApproximantOf, zeroNull(ph.IdealAA), ph.ConstantA, ph.ConstantSUA,
-			zeroNull(ph.SixDimensionalConstantA), ph.ZeroShiftDeg, ph.ZeroShiftSUDeg, ph.FigureOfMerit, ph.Chance,
-			ph.ChanceBasis, ph.ExplainedIntensity, ph.RMSResidualDeg, boolInt(ph.PhasonStrain)); err != nil {
+		if _, err := t.insertPhase(ph.ID, x.ID, i, &ph.IndexedPhase); err != nil {
 			return at(fmt.Sprintf("phases[%d]", i), err)
 		}
 		for j, a := range ph.Assignments {
-			if _, err := t.exec(`INSERT INTO peak_assignment (phase_id, peak_id, calculated_two_theta_deg, residual_deg, d_angstrom, label, detail)
-				VALUES (?, ?, ?, ?, ?, ?, ?)`, ph.ID, a.PeakID, a.CalculatedTwoThetaDeg, a.ResidualDeg, a.DAngstrom, a.Label, a.Detail); err != nil {
+			if err := t.insertAssignment(ph.ID, a.PeakID, a.CalculatedTwoThetaDeg, a.ResidualDeg, a.DAngstrom, a.Label, a.Detail,
+				a.PredictedIntensity); err != nil {
 				return at(fmt.Sprintf("phases[%d].assignments[%d]", i, j), err)
 			}
 		}
 	}
 	for i, m := range x.Models {
-		if _, err := t.exec(`INSERT INTO indexing_model (indexing_id, position, kind, lattice, approximant_order, scale_angstrom,
-				indexed_peaks, figure_of_merit, chance) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-			x.ID, i, m.Kind, m.Lattice, m.Order, m.ScaleA, m.IndexedPeaks, m.FigureOfMerit, m.Chance); err != nil {
+		if err := t.insertModel(x.ID, i, m); err != nil {
 			return at(fmt.Sprintf("models[%d]", i), err)
 		}
 	}

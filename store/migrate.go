@@ -2,6 +2,8 @@ package store
 
 import (
 	"context"
+	"database/sql"
+	"database/sql/driver"
 	"fmt"
 	"io/fs"
 	"sort"
@@ -57,6 +59,13 @@ func (s *Store) migrate(ctx context.Context, ms []migration) error {
 	return nil
 }
 
+// applyMigration runs one migration the way SQLite's procedure for
+// rebuilding a table asks (https://www.sqlite.org/lang_altertable.html#otheralter):
+// on one connection with foreign-key enforcement off (it cannot be switched
+// inside a transaction), in a transaction that checks the whole file with
+// PRAGMA foreign_key_check before it commits, and with enforcement back on
+// afterwards. A migration may thus drop and recreate a table that others
+// refer to; one that leaves a reference dangling is rolled back.
 func (s *Store) applyMigration(ctx context.Context, m migration) error {
 	var done int
 	// A cheap read first, so that an up-to-date notebook is never locked
@@ -67,11 +76,32 @@ func (s *Store) applyMigration(ctx context.Context, m migration) error {
 	if done > 0 {
 		return nil
 	}
-	tx, err := s.db.BeginTx(ctx, nil)
+	conn, err := s.db.Conn(ctx)
+	if err != nil {
+		return fmt.Errorf("migration %s: %w", m.name, err)
+	}
+	defer conn.Close()
+	if _, err := conn.ExecContext(ctx, "PRAGMA foreign_keys = OFF"); err != nil {
+		return fmt.Errorf("migration %s: %w", m.name, err)
+	}
+	errRun := s.runMigration(ctx, conn, m)
+	if _, err := conn.ExecContext(ctx, "PRAGMA foreign_keys = ON"); err != nil {
+		// The connection must not go back to the pool without enforcement.
+		conn.Raw(func(any) error { return driver.ErrBadConn })
+		if errRun == nil {
+			errRun = fmt.Errorf("migration %s: enforce foreign keys again: %w", m.name, err)
+		}
+	}
+	return errRun
+}
+
+func (s *Store) runMigration(ctx context.Context, conn *sql.Conn, m migration) error {
+	tx, err := conn.BeginTx(ctx, nil)
 	if err != nil {
 		return fmt.Errorf("migration %s: %w", m.name, err)
 	}
 	defer tx.Rollback()
+	var done int
 	// Another process may have applied it while we waited for the lock.
 	if err := tx.QueryRowContext(ctx, "SELECT COUNT(*) FROM schema_migration WHERE version = ?", m.version).Scan(&done); err != nil {
 		return fmt.Errorf("migration %s: %w", m.name, err)
@@ -82,12 +112,46 @@ func (s *Store) applyMigration(ctx context.Context, m migration) error {
 	if _, err := tx.ExecContext(ctx, m.sql); err != nil {
 		return fmt.Errorf("migration %s: %w", m.name, err)
 	}
+	if err := foreignKeyCheck(ctx, tx); err != nil {
+		return fmt.Errorf("migration %s: %w", m.name, err)
+	}
 	if _, err := tx.ExecContext(ctx, "INSERT INTO schema_migration (version, name, applied_at) VALUES (?, ?, ?)",
 		m.version, m.name, formatTime(s.now())); err != nil {
 		return fmt.Errorf("migration %s: %w", m.name, err)
 	}
 	if err := tx.Commit(); err != nil {
 		return fmt.Errorf("migration %s: %w", m.name, err)
+	}
+	return nil
+}
+
+// foreignKeyCheck reports the first row whose reference names no row, as
+// PRAGMA foreign_key_check finds it: table, row id, referred table.
+func foreignKeyCheck(ctx context.Context, tx *sql.Tx) error {
+	rows, err := tx.QueryContext(ctx, "PRAGMA foreign_key_check")
+	if err != nil {
+		return fmt.Errorf("foreign key check: %w", err)
+	}
+	defer rows.Close()
+	n := 0
+	var first string
+	for rows.Next() {
+		var table, parent string
+		var rowid sql.NullInt64
+		var fk int
+		if err := rows.Scan(&table, &rowid, &parent, &fk); err != nil {
+			return fmt.Errorf("foreign key check: %w", err)
+		}
+		if n == 0 {
+			first = fmt.Sprintf("row %d of %s names no row of %s", rowid.Int64, table, parent)
+		}
+		n++
+	}
+	if err := rows.Err(); err != nil {
+		return fmt.Errorf("foreign key check: %w", err)
+	}
+	if n > 0 {
+		return fmt.Errorf("%d references left dangling, e.g. %s", n, first)
 	}
 	return nil
 }

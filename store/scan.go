@@ -57,8 +57,12 @@ const supersededReason = "superseded by re-indexing"
 // AddScan stores a scan of a sample with its first indexing (peaks,
 // phases, assignments, models tried) and the automatic proposals made from
 // it, all in one transaction, with history rows for the scan, the indexing
-// and each proposal. The same file (by SHA-256) on the same sample is a
-// Conflict naming the scan that holds it. It returns the stored record.
+// and each proposal. Every field of each phase call is kept (see the
+// package documentation); a call the notebook cannot hold (an unknown kind
+// or centring, a non-finite number, a cell constant that is not positive)
+// is Invalid, naming the field ("phases[0].kind"), before anything is
+// written. The same file (by SHA-256) on the same sample is a Conflict
+// naming the scan that holds it. It returns the stored record.
 func (s *Store) AddScan(ctx context.Context, who string, n NewScan) (*meltbook.ScanRecord, error) {
 	sc := n.Scan
 	sc.ID = 0
@@ -157,8 +161,8 @@ func (s *Store) AddIndexing(ctx context.Context, who string, scanID int64, n New
 	return rec, nil
 }
 
-// checkIndexing checks an indexing and its proposals before anything is
-// written.
+// checkIndexing checks an indexing, its phase calls (checkPhase) and its
+// proposals before anything is written.
 func checkIndexing(x *meltbook.Indexing, ps []Proposal, again bool) error {
 	if err := x.Radiation.Validate(); err != nil {
 		return err
@@ -169,7 +173,11 @@ func checkIndexing(x *meltbook.Indexing, ps []Proposal, again bool) error {
 	if !again && x.Reason != "" {
 		return meltbook.Errorf(invalid, "reason", "a scan's first indexing needs no reason")
 	}
-	for i, ph := range x.Phases {
+	for i := range x.Phases {
+		ph := &x.Phases[i]
+		if err := checkPhase(ph); err != nil {
+			return at(fmt.Sprintf("phases[%d]", i), err)
+		}
 		for _, a := range ph.Assignments {
 			if a.Peak < 0 || a.Peak >= len(x.Peaks) {
 				return meltbook.Errorf(invalid, "indexing", "phase %d assigns peak %d of %d", i+1, a.Peak+1, len(x.Peaks))
@@ -296,15 +304,9 @@ func (t *txn) insertIndexing(meltID int64, sa *meltbook.Sample, sc *meltbook.Sca
 	for i := range x.Phases {
 		ph := &x.Phases[i]
 		titles[i] = ph.Title()
-		ph.ID, err = t.insert(`INSERT INTO indexed_phase (indexing_id, position, kind, lattice, approximant_order, approximant_of,
-				ideal_a_angstrom, constant_angstrom, constant_su_angstrom, a6_angstrom, zero_shift_deg, zero_shift_su_deg,
-				figure_of_merit, chance, chance_basis, explained_intensity, rms_residual_deg, phason_strain)
-			VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?) RETURNING id`,
-			id, i, ph.Kind, ph.Lattice, ph.Order, ph.ApproximantOf, zeroNull(ph.IdealAA), ph.ConstantA, ph.ConstantSUA,
-			zeroNull(ph.SixDimensionalConstantA), ph.ZeroShiftDeg, ph.ZeroShiftSUDeg, ph.FigureOfMerit, ph.Chance,
-			ph.ChanceBasis, ph.ExplainedIntensity, ph.RMSResidualDeg, boolInt(ph.PhasonStrain))
+		ph.ID, err = t.insertPhase(nil, id, i, ph)
 		if isConstraint(err) {
-			return meltbook.Errorf(invalid, "indexing", "phase %d (%s) has a kind, lattice or chance the notebook does not hold", i+1, titles[i])
+			return meltbook.Errorf(invalid, "indexing", "phase %d (%s) has a kind, lattice, cell or chance the notebook does not hold", i+1, titles[i])
 		}
 		if err != nil {
 			return fmt.Errorf("store phase %d of scan %d: %w", i+1, sc.ID, err)
@@ -312,8 +314,8 @@ func (t *txn) insertIndexing(meltID int64, sa *meltbook.Sample, sc *meltbook.Sca
 		for j := range ph.Assignments {
 			a := &ph.Assignments[j]
 			a.PeakID = x.Peaks[a.Peak].ID
-			if _, err := t.exec(`INSERT INTO peak_assignment (phase_id, peak_id, calculated_two_theta_deg, residual_deg, d_angstrom, label, detail)
-				VALUES (?, ?, ?, ?, ?, ?, ?)`, ph.ID, a.PeakID, a.CalculatedTwoThetaDeg, a.ResidualDeg, a.DAngstrom, a.Label, a.Detail); err != nil {
+			if err := t.insertAssignment(ph.ID, a.PeakID, a.CalculatedTwoThetaDeg, a.ResidualDeg, a.DAngstrom, a.Label, a.Detail,
+				a.PredictedIntensity); err != nil {
 				if isConstraint(err) {
 					return meltbook.Errorf(invalid, "indexing", "phase %d assigns peak %d twice", i+1, a.Peak+1)
 				}
@@ -322,9 +324,7 @@ func (t *txn) insertIndexing(meltID int64, sa *meltbook.Sample, sc *meltbook.Sca
 		}
 	}
 	for i, m := range x.Models {
-		if _, err := t.exec(`INSERT INTO indexing_model (indexing_id, position, kind, lattice, approximant_order, scale_angstrom,
-				indexed_peaks, figure_of_merit, chance) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-			id, i, m.Kind, m.Lattice, m.Order, m.ScaleA, m.IndexedPeaks, m.FigureOfMerit, m.Chance); err != nil {
+		if err := t.insertModel(id, i, m); err != nil {
 			return fmt.Errorf("store model of scan %d: %w", sc.ID, err)
 		}
 	}
@@ -732,25 +732,17 @@ func (t *txn) fillPeaks(x *meltbook.Indexing) error {
 }
 
 func (t *txn) fillPhases(x *meltbook.Indexing) error {
-	rows, err := t.query(`SELECT id, kind, lattice, approximant_order, approximant_of, ideal_a_angstrom, constant_angstrom,
-			constant_su_angstrom, a6_angstrom, zero_shift_deg, zero_shift_su_deg, figure_of_merit, chance, chance_basis,
-			explained_intensity, rms_residual_deg, phason_strain
-		FROM indexed_phase WHERE indexing_id = ? ORDER BY position`, x.ID)
+	rows, err := t.query(`SELECT `+phaseColumns+` FROM indexed_phase WHERE indexing_id = ? ORDER BY position`, x.ID)
 	if err != nil {
 		return fmt.Errorf("phases: %w", err)
 	}
 	x.Phases = []meltbook.IndexedPhase{}
 	for rows.Next() {
 		var ph meltbook.IndexedPhase
-		var ideal, a6 sql.NullFloat64
-		var phason int
-		if err := rows.Scan(&ph.ID, &ph.Kind, &ph.Lattice, &ph.Order, &ph.ApproximantOf, &ideal, &ph.ConstantA,
-			&ph.ConstantSUA, &a6, &ph.ZeroShiftDeg, &ph.ZeroShiftSUDeg, &ph.FigureOfMerit, &ph.Chance, &ph.ChanceBasis,
-			&ph.ExplainedIntensity, &ph.RMSResidualDeg, &phason); err != nil {
+		if err := scanPhase(rows, &ph); err != nil {
 			rows.Close()
 			return fmt.Errorf("phases: %w", err)
 		}
-		ph.IdealAA, ph.SixDimensionalConstantA, ph.PhasonStrain = ideal.Float64, a6.Float64, phason == 1
 		x.Phases = append(x.Phases, ph)
 	}
 	rows.Close()
@@ -763,7 +755,8 @@ func (t *txn) fillPhases(x *meltbook.Indexing) error {
 	}
 	for i := range x.Phases {
 		ph := &x.Phases[i]
-		arows, err := t.query(`SELECT a.peak_id, p.two_theta_deg, a.calculated_two_theta_deg, a.residual_deg, a.d_angstrom, a.label, a.detail
+		arows, err := t.query(`SELECT a.peak_id, p.two_theta_deg, a.calculated_two_theta_deg, a.residual_deg, a.d_angstrom, a.label, a.detail,
+				a.predicted_intensity
 			FROM peak_assignment a JOIN peak p ON p.id = a.peak_id WHERE a.phase_id = ? ORDER BY p.position`, ph.ID)
 		if err != nil {
 			return fmt.Errorf("assignments: %w", err)
@@ -771,10 +764,13 @@ func (t *txn) fillPhases(x *meltbook.Indexing) error {
 		ph.Assignments = []meltbook.PeakAssignment{}
 		for arows.Next() {
 			var a meltbook.PeakAssignment
-			if err := arows.Scan(&a.PeakID, &a.TwoThetaDeg, &a.CalculatedTwoThetaDeg, &a.ResidualDeg, &a.DAngstrom, &a.Label, &a.Detail); err != nil {
+			var predicted sql.NullFloat64
+			if err := arows.Scan(&a.PeakID, &a.TwoThetaDeg, &a.CalculatedTwoThetaDeg, &a.ResidualDeg, &a.DAngstrom, &a.Label, &a.Detail,
+				&predicted); err != nil {
 				arows.Close()
 				return fmt.Errorf("assignments: %w", err)
 			}
+			a.PredictedIntensity = floatPtr(predicted)
 			a.Peak = position[a.PeakID]
 			ph.Assignments = append(ph.Assignments, a)
 		}
@@ -787,8 +783,7 @@ func (t *txn) fillPhases(x *meltbook.Indexing) error {
 }
 
 func (t *txn) fillModels(x *meltbook.Indexing) error {
-	rows, err := t.query(`SELECT kind, lattice, approximant_order, scale_angstrom, indexed_peaks, figure_of_merit, chance
-		FROM indexing_model WHERE indexing_id = ? ORDER BY position`, x.ID)
+	rows, err := t.query(`SELECT `+modelColumns+` FROM indexing_model WHERE indexing_id = ? ORDER BY position`, x.ID)
 	if err != nil {
 		return fmt.Errorf("models: %w", err)
 	}
@@ -796,7 +791,7 @@ func (t *txn) fillModels(x *meltbook.Indexing) error {
 	x.Models = []meltbook.ModelTried{}
 	for rows.Next() {
 		var m meltbook.ModelTried
-		if err := rows.Scan(&m.Kind, &m.Lattice, &m.Order, &m.ScaleA, &m.IndexedPeaks, &m.FigureOfMerit, &m.Chance); err != nil {
+		if err := scanModel(rows, &m); err != nil {
 			return fmt.Errorf("models: %w", err)
 		}
 		x.Models = append(x.Models, m)

@@ -194,8 +194,11 @@ func TestAddScanFailureLeavesNothing(t *testing.T) {
 	s := scanNotebook(t)
 	before := export(t, s)
 	hist, _ := s.History(ctx, "QX-0001")
-	bad := newIndexing()
-	bad.Phases[0].Kind = "hexagonal" // refused by the schema after scan and peaks were written
+	twice := newIndexing()
+	// Refused by the schema after scan, peaks and phase were written.
+	twice.Phases[0].Assignments = append(twice.Phases[0].Assignments, twice.Phases[0].Assignments[0])
+	badKind := newIndexing()
+	badKind.Phases[0].Kind = "hexagnal"
 	cases := []struct {
 		name  string
 		n     store.NewScan
@@ -209,7 +212,8 @@ func TestAddScanFailureLeavesNothing(t *testing.T) {
 			Proposals: []store.Proposal{{Outcome: meltbook.Outcome{Kind: meltbook.Icosahedral}, Confidence: "certain"}}}, meltbook.Invalid, "confidence"},
 		{"proposal on a phase not there", store.NewScan{Scan: newScan("QX-0001", "a.xy"), Indexing: newIndexing(),
 			Proposals: []store.Proposal{{Outcome: meltbook.Outcome{Kind: meltbook.Icosahedral}, Phase: 3, Confidence: "low"}}}, meltbook.Invalid, "proposal"},
-		{"kind the schema refuses", store.NewScan{Scan: newScan("QX-0001", "a.xy"), Indexing: bad}, meltbook.Invalid, "indexing"},
+		{"peak assigned twice", store.NewScan{Scan: newScan("QX-0001", "a.xy"), Indexing: twice}, meltbook.Invalid, "indexing"},
+		{"unknown kind", store.NewScan{Scan: newScan("QX-0001", "a.xy"), Indexing: badKind}, meltbook.Invalid, "phases[0].kind"},
 		{"crystalline without a name", store.NewScan{Scan: newScan("QX-0001", "a.xy"), Indexing: newIndexing(),
 			Proposals: []store.Proposal{{Outcome: meltbook.Outcome{Kind: meltbook.Crystalline}, Confidence: "low"}}}, meltbook.Invalid, "name"},
 	}
