@@ -96,7 +96,7 @@ func analyse(sc *meltbook.Scan, rad radiation.Radiation, std *peaks.Standard, to
 		}
 		for _, m := range res.Models {
 			x.Models = append(x.Models, meltbook.ModelTried{Kind: string(m.Kind), Lattice: m.Lattice, Order: m.Order,
-				ScaleA: m.ScaleA, IndexedPeaks: m.IndexedPeaks, FigureOfMerit: m.FigureOfMerit, Chance: m.Chance})
+				Phase: m.Phase, ScaleA: m.ScaleA, IndexedPeaks: m.IndexedPeaks, FigureOfMerit: m.FigureOfMerit, Chance: m.Chance})
 		}
 	} else {
 		for _, i := range listPeak {
