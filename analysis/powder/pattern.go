@@ -22,7 +22,7 @@ type Line struct {
 // Options sets up a pattern calculation.
 type Options struct {
 	WavelengthA              float64 // X-ray wavelength in Å, required, e.g. 1.5405929 (Cu Kα1)
-	TwoThetaMaxDeg           float64 // largest 2θ in degrees, in (0°, 180°]; 120° when 0
+	TwoThetaMaxDeg           float64 // largest 2θ in degrees, in (0°, 180°); 120° when 0
 	MonochromatorTwoThetaDeg float64 // 2θ of a crystal monochromator in degrees, in [0°, 180°); 0 for none
 }
 
@@ -61,8 +61,8 @@ const DefaultTwoThetaMaxDeg = 120
 //
 // Reference: International Tables for Crystallography Vol. C, §6.2.2
 // (Lorentz and polarisation factors) and §6.1.1 (form factors);
-// L. V. Azároff, Acta Cryst. 8, 701 (1955), doi:10.1107/S0365110X55002156
-// (polarisation with a crystal monochromator).
+// L. V. Azároff, Acta Cryst. 8, 701 (1955) (polarisation with a crystal
+// monochromator).
 func Pattern(s crystal.Structure, opt Options) ([]Line, error) {
 	lambda := opt.WavelengthA
 	if !(lambda > 0) || math.IsInf(lambda, 0) {
@@ -72,8 +72,8 @@ func Pattern(s crystal.Structure, opt Options) ([]Line, error) {
 	if tthMax == 0 {
 		tthMax = DefaultTwoThetaMaxDeg
 	}
-	if !(tthMax > 0 && tthMax <= 180) {
-		return nil, meltbook.Errorf(meltbook.Invalid, "2θ maximum", "%g° is not an angle in (0°, 180°]", opt.TwoThetaMaxDeg)
+	if !(tthMax > 0 && tthMax < 180) {
+		return nil, meltbook.Errorf(meltbook.Invalid, "2θ maximum", "%g° is not an angle in (0°, 180°): LP grows without bound at 180°", opt.TwoThetaMaxDeg)
 	}
 	mono := opt.MonochromatorTwoThetaDeg
 	if !(mono >= 0 && mono < 180) {
@@ -99,10 +99,7 @@ func Pattern(s crystal.Structure, opt Options) ([]Line, error) {
 	f2 := sc.structureFactors(fams)
 	lines := make([]Line, 0, len(fams))
 	for i, f := range fams {
-		sinT := lambda / (2 * f.DSpacingA)
-		if sinT > 1 {
-			continue
-		}
+		sinT := lambda / (2 * f.DSpacingA) // ≤ sin θmax (1 + 1e-12) < 1
 		theta := math.Asin(sinT)
 		tth := 2 * theta * 180 / math.Pi
 		if tth > tthMax*(1+1e-12) {

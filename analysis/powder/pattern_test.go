@@ -147,6 +147,7 @@ func TestPatternErrors(t *testing.T) {
 		{"negative wavelength", al, powder.Options{WavelengthA: -1.54}, "wavelength"},
 		{"NaN wavelength", al, powder.Options{WavelengthA: math.NaN()}, "wavelength"},
 		{"2θ limit above 180°", al, powder.Options{WavelengthA: 1.54, TwoThetaMaxDeg: 200}, "2θ maximum"},
+		{"2θ limit at 180°", al, powder.Options{WavelengthA: 1.54, TwoThetaMaxDeg: 180}, "2θ maximum"},
 		{"negative 2θ limit", al, powder.Options{WavelengthA: 1.54, TwoThetaMaxDeg: -5}, "2θ maximum"},
 		{"monochromator at 180°", al, powder.Options{WavelengthA: 1.54, MonochromatorTwoThetaDeg: 180}, "monochromator 2θ"},
 		{"beyond the form-factor fit", al, powder.Options{WavelengthA: 0.2, TwoThetaMaxDeg: 150}, "2θ maximum"},

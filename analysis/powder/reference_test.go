@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"path/filepath"
 	"testing"
 
 	"meltbook/analysis/internal/pyref"
@@ -66,7 +67,7 @@ func TestAgainstGemmi(t *testing.T) {
 	}
 	for i, ref := range got {
 		s := files[i]
-		t.Run(ref.Path[len(ref.Path)-min(len(ref.Path), 30):], func(t *testing.T) {
+		t.Run(filepath.Base(ref.Path), func(t *testing.T) {
 			lines, err := powder.Pattern(s.Structure, powder.Options{WavelengthA: CuKalpha1A, TwoThetaMaxDeg: 120})
 			if err != nil {
 				t.Fatal(err)

@@ -88,7 +88,7 @@ next:
 }
 
 // times returns the row vector h·R.
-func times(h [3]int, r [3][3]int) [3]int {
+func times(h [3]int, r *[3][3]int) [3]int {
 	return [3]int{
 		h[0]*r[0][0] + h[1]*r[1][0] + h[2]*r[2][0],
 		h[0]*r[0][1] + h[1]*r[1][1] + h[2]*r[2][1],
@@ -219,37 +219,57 @@ func families(s crystal.Structure, dMinA float64) ([]family, error) {
 	// Laue-class order.
 	expect := 4 * math.Pi / 3 * s.Cell.Volume() / (dMinA * dMinA * dMinA) / float64(len(laue))
 	out := make([]family, 0, int(expect*1.2)+16)
-	orbit := make([][3]int, 0, len(laue))
-	for h := -limit[0]; h <= limit[0]; h++ {
-		for k := -limit[1]; k <= limit[1]; k++ {
-			for l := -limit[2]; l <= limit[2]; l++ {
+	var outside [][3]int // members beyond the box, kept apart (rounding at its edge)
+	// Every family holds h and −h, so the half space h > 0, or h = 0 and
+	// k > 0, or h = k = 0 and l > 0 meets each one. For each (h, k) the l
+	// inside the sphere solve A l² + B l + C ≤ 1/d²min.
+	for h := 0; h <= limit[0]; h++ {
+		kFrom := -limit[1]
+		if h == 0 {
+			kFrom = 0
+		}
+		for k := kFrom; k <= limit[1]; k++ {
+			fh, fk := float64(h), float64(k)
+			a := gs[2][2]
+			b := 2 * (fh*gs[0][2] + fk*gs[1][2])
+			c := fh*fh*gs[0][0] + fk*fk*gs[1][1] + 2*fh*fk*gs[0][1]
+			disc := b*b - 4*a*(c-maxInv)
+			if disc < 0 {
+				continue
+			}
+			root := math.Sqrt(disc)
+			lFrom := max(-limit[2], int(math.Floor((-b-root)/(2*a)))-1)
+			lTo := min(limit[2], int(math.Ceil((-b+root)/(2*a)))+1)
+			if h == 0 && k == 0 {
+				lFrom = max(lFrom, 1)
+			}
+			for l := lFrom; l <= lTo; l++ {
 				hkl := [3]int{h, k, l}
 				i, _ := index(hkl)
-				if visited[i] || hkl == [3]int{} {
+				if visited[i] {
 					continue
 				}
 				inv := invDSquared(gs, hkl)
 				if inv > maxInv {
 					continue
 				}
-				orbit = orbit[:0]
-				rep := hkl
-				for _, r := range laue {
-					m := times(hkl, r)
-					dup := false
-					for _, o := range orbit {
-						if o == m {
-							dup = true
-							break
-						}
-					}
-					if dup {
-						continue
-					}
-					orbit = append(orbit, m)
+				// The members of an unvisited family are all unvisited, so
+				// the visited marks also tell repeats within the family.
+				rep, mult := hkl, 0
+				outside = outside[:0]
+				for ri := range laue {
+					m := times(hkl, &laue[ri])
 					if j, ok := index(m); ok {
+						if visited[j] {
+							continue
+						}
 						visited[j] = true
+					} else if slices.Contains(outside, m) {
+						continue
+					} else {
+						outside = append(outside, m)
 					}
+					mult++
 					if preferredIndex(m, rep) {
 						rep = m
 					}
@@ -258,7 +278,7 @@ func families(s crystal.Structure, dMinA float64) ([]family, error) {
 					continue
 				}
 				out = append(out, family{
-					Reflection: Reflection{HKL: rep, Multiplicity: len(orbit), DSpacingA: 1 / math.Sqrt(inv)},
+					Reflection: Reflection{HKL: rep, Multiplicity: mult, DSpacingA: 1 / math.Sqrt(inv)},
 					invD2:      inv,
 				})
 			}
@@ -309,8 +329,9 @@ func invDSquared(gs [3][3]float64, h [3]int) float64 {
 // absent reports whether some operation (R, t) with h·R = h gives h·t a
 // fractional part.
 func absent(h [3]int, ops []crystal.Operation) bool {
-	for _, op := range ops {
-		if times(h, op.R) != h {
+	for i := range ops {
+		op := &ops[i]
+		if times(h, &op.R) != h {
 			continue
 		}
 		p := float64(h[0])*op.T[0] + float64(h[1])*op.T[1] + float64(h[2])*op.T[2]
