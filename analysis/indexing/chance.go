@@ -196,8 +196,17 @@ func tailChance(null []float64, s float64, floorless bool) (float64, string) {
 // uniform random lists and from the model's structured decoys. When refine
 // is true and an estimate lies near threshold, it is made again from more
 // lists.
+//
+// For a phase of known structure the uniform-list estimate is the
+// analytic bound of fisherChance.
 func chance(m *model, peaks []Peak, cfg searchConfig, s, threshold float64, refine bool) (float64, string) {
-	c, basis := nullChance(m, peaks, cfg, s, threshold, refine, noDecoys, nullSmall, nullLarge)
+	var c float64
+	var basis string
+	if m.known != nil {
+		c, basis = fisherChance(peaks, cfg, s)
+	} else {
+		c, basis = nullChance(m, peaks, cfg, s, threshold, refine, noDecoys, nullSmall, nullLarge)
+	}
 	if set := m.decoys(); set != noDecoys {
 		cd, bd := nullChance(m, peaks, cfg, s, threshold, refine, set, decoySmall, decoyLarge)
 		if cd > c {

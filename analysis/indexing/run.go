@@ -447,7 +447,8 @@ func relabelApproximants(phases []Phase, taken []takenPhase, found []float64, la
 // are better explained by a model that chance could also explain, and
 // reporting the weaker one in its place would be a guess: the peaks stay
 // unidentified. (A cubic crystal's dozen lines, half of which an
-// icosahedral model also fits, is the case this guards against.)
+// icosahedral model also fits, is the case this guards against.) Only
+// another phase of known structure outranks a phase of known structure.
 //
 // Reference: common practice (a phase call must be the best explanation,
 // not merely a significant one).
@@ -463,6 +464,13 @@ func outranked(all []scored, best int, maxChance float64) bool {
 		// A significant rival was passed over on purpose (preferSubCell);
 		// cubic cells and approximants are one family of explanations.
 		if (x.basis != "" && x.chance <= maxChance) || (cubicLike(x.m.kind) && cubicLike(b.m.kind)) {
+			continue
+		}
+		// A phase of known structure matched positions and intensities; a
+		// lattice or quasilattice that fits positions alone does not set it
+		// aside (a pseudo-cubic cell such as Al3Pd2's, c/a ≈ √(3/2), has a
+		// cubic I cell that indexes every line).
+		if b.m.known != nil && x.m.known == nil {
 			continue
 		}
 		shared := 0

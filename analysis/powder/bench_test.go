@@ -74,3 +74,49 @@ func BenchmarkPatternAl6Mn(b *testing.B) {
 		}
 	}
 }
+
+// approximantCell is an invented cubic cell the size of a 1/1
+// approximant (a = 12.68 Å, space group Pm-3): four Al, Mn or Si sites in
+// general positions (24 atoms each), one at the origin and one on
+// (x, 0, 0), 103 atoms in all. Coordinates are random; only the size and
+// symmetry matter for the benchmark.
+func approximantCell(tb testing.TB) crystal.Structure {
+	g, err := crystal.FindSpaceGroup("P m -3")
+	if err != nil {
+		tb.Fatal(err)
+	}
+	r := rand.New(rand.NewPCG(3, 4))
+	s := crystal.Structure{
+		Name:  "invented Pm-3",
+		Cell:  crystal.Cell{A: 12.68, B: 12.68, C: 12.68, Alpha: 90, Beta: 90, Gamma: 90},
+		Group: g,
+		Sites: []crystal.Site{
+			{Label: "Mn1", Element: "Mn", Fract: [3]float64{0, 0, 0}, Occupancy: 1, UisoA2: 0.006},
+			{Label: "Si1", Element: "Si", Fract: [3]float64{0.31, 0, 0}, Occupancy: 1, UisoA2: 0.01},
+		},
+	}
+	for i, el := range []string{"Al", "Al", "Al", "Mn"} {
+		s.Sites = append(s.Sites, crystal.Site{
+			Label:     el + string(rune('2'+i)),
+			Element:   el,
+			Fract:     [3]float64{r.Float64(), r.Float64(), r.Float64()},
+			Occupancy: 1,
+			UisoA2:    0.01,
+		})
+	}
+	return s
+}
+
+// BenchmarkPatternApproximant: the 103-atom Pm-3 cell to 2θ = 120° at Cu
+// Kα1, the size of the phases the library holds at most.
+func BenchmarkPatternApproximant(b *testing.B) {
+	s := approximantCell(b)
+	b.Logf("%d atoms", len(s.Atoms()))
+	opt := powder.Options{WavelengthA: CuKalpha1A}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := powder.Pattern(s, opt); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

@@ -27,6 +27,10 @@ const absenceTolerance = 1e-6
 // for a rotation R to be accepted as a symmetry of the cell.
 const metricTolerance = 1e-4
 
+// maxLatticePoints bounds the box of indices searched (one byte each), so
+// that a very large cell or a tiny d cannot exhaust memory.
+const maxLatticePoints = 5e7
+
 // family is a Reflection with its 1/d² in Å⁻².
 type family struct {
 	Reflection
@@ -117,15 +121,6 @@ func negatives(h [3]int) int {
 	return n
 }
 
-// preferredIndex reports whether a is a better representative than b:
-// fewer negative indices, then lexicographically larger.
-func preferredIndex(a, b [3]int) bool {
-	if na, nb := negatives(a), negatives(b); na != nb {
-		return na < nb
-	}
-	return lexLess(b, a)
-}
-
 // checkMetric reports an error when rotation r does not preserve the
 // reciprocal metric gs: (R G* Rᵀ)ᵢⱼ must equal G*ᵢⱼ.
 func checkMetric(r [3][3]int, gs [3][3]float64, op crystal.Operation) error {
@@ -195,15 +190,10 @@ func families(s crystal.Structure, dMinA float64) ([]family, error) {
 		int(s.Cell.C/dMinA + 1e-9),
 	}
 	n := [3]int{2*limit[0] + 1, 2*limit[1] + 1, 2*limit[2] + 1}
-	visited := make([]bool, n[0]*n[1]*n[2])
-	index := func(h [3]int) (int, bool) {
-		for i := range h {
-			if h[i] < -limit[i] || h[i] > limit[i] {
-				return 0, false
-			}
-		}
-		return ((h[0]+limit[0])*n[1]+(h[1]+limit[1]))*n[2] + h[2] + limit[2], true
+	if float64(n[0])*float64(n[1])*float64(n[2]) > maxLatticePoints {
+		return nil, meltbook.Errorf(meltbook.Invalid, "minimum d-spacing", "%g Å in a cell of %.4g × %.4g × %.4g Å would list more than %g lattice points; choose a larger d", dMinA, s.Cell.A, s.Cell.B, s.Cell.C, maxLatticePoints)
 	}
+	visited := make([]bool, n[0]*n[1]*n[2])
 	maxInv := 1 / (dMinA * dMinA) * (1 + 1e-12)
 	// Only operations with a translation can cause absences.
 	var translated []crystal.Operation
@@ -245,8 +235,7 @@ func families(s crystal.Structure, dMinA float64) ([]family, error) {
 			}
 			for l := lFrom; l <= lTo; l++ {
 				hkl := [3]int{h, k, l}
-				i, _ := index(hkl)
-				if visited[i] {
+				if visited[((h+limit[0])*n[1]+(k+limit[1]))*n[2]+l+limit[2]] {
 					continue
 				}
 				inv := invDSquared(gs, hkl)
@@ -256,10 +245,12 @@ func families(s crystal.Structure, dMinA float64) ([]family, error) {
 				// The members of an unvisited family are all unvisited, so
 				// the visited marks also tell repeats within the family.
 				rep, mult := hkl, 0
+				repNeg := negatives(hkl)
 				outside = outside[:0]
 				for ri := range laue {
 					m := times(hkl, &laue[ri])
-					if j, ok := index(m); ok {
+					j := ((m[0]+limit[0])*n[1]+(m[1]+limit[1]))*n[2] + m[2] + limit[2]
+					if uint(m[0]+limit[0]) < uint(n[0]) && uint(m[1]+limit[1]) < uint(n[1]) && uint(m[2]+limit[2]) < uint(n[2]) {
 						if visited[j] {
 							continue
 						}
@@ -270,8 +261,8 @@ func families(s crystal.Structure, dMinA float64) ([]family, error) {
 						outside = append(outside, m)
 					}
 					mult++
-					if preferredIndex(m, rep) {
-						rep = m
+					if neg := negatives(m); neg < repNeg || (neg == repNeg && lexLess(rep, m)) {
+						rep, repNeg = m, neg
 					}
 				}
 				if absent(rep, translated) {

@@ -190,6 +190,7 @@ func TestReflectionErrors(t *testing.T) {
 		{"zero d", al, 0, "minimum d-spacing"},
 		{"NaN d", al, math.NaN(), "minimum d-spacing"},
 		{"operations not of the cell", skew, 1, "symmetry operation"},
+		{"too many reflections", al, 0.005, "minimum d-spacing"},
 	} {
 		_, err := powder.Reflections(c.s, c.dMin)
 		var me *meltbook.Error
