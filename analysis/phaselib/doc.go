@@ -14,8 +14,16 @@
 // θ-Al2Cu; see the CIF 1.1 specification, "Greek letters"), so that the
 // files stay ASCII while the notebook shows the names metallurgists use.
 //
-// Which phases are built in, where each was published, and which wanted
-// phases are left out (because no published structure could be checked) is
-// listed in the package's README-like comment of builtin.go and by
-// `meltbook phases`.
+// Each built-in file names its publication and, in a "# Provenance:"
+// comment, what of it was checked and how. The wanted phases left out,
+// because no published structure could be checked, are listed in
+// NotBuiltIn; `meltbook phases` prints both.
+//
+// To add a phase to the built-in library, put its CIF in phases/ with
+// _chemical_name_common (Greek letters in CIF markup), the publication
+// (_publ_author_name, _journal_name_full, _journal_volume,
+// _journal_page_first, _journal_year) and a provenance comment, and add it
+// to the table of TestBuiltinPhases; the tests then check it against gemmi
+// and pymatgen (its pattern, named by the search-match), its stoichiometry
+// and its interatomic distances.
 package phaselib
