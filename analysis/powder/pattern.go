@@ -1,9 +1,11 @@
 package powder
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 
 	"meltbook"
 	"meltbook/analysis/crystal"
@@ -164,6 +166,9 @@ func newScatterers(s crystal.Structure) (*scatterers, error) {
 		sc.sites = append(sc.sites, scatterSite{occupancy: site.Occupancy, element: ei, b: bi})
 	}
 	atoms := s.Atoms()
+	// Atoms comes site by site; keep it so whatever its order, since each
+	// site's atoms are summed as one run.
+	slices.SortStableFunc(atoms, func(a, b crystal.Atom) int { return cmp.Compare(a.Site, b.Site) })
 	sc.natoms = len(atoms)
 	sc.fract = make([][3]float64, len(atoms))
 	for i := range sc.sites {

@@ -27,8 +27,12 @@ func script(t *testing.T, name string) string {
 // its own operation table, so the absences are checked against an
 // independent source for every hkl with d down to the Cu Kα1 limit at
 // 2θ = 120°; gemmi uses the same IT92 form-factor table, so |F|² must
-// agree to 1e-3 relative (plus 1e-6 of the pattern's largest |F|² for the
-// lines that vanish by special positions).
+// agree to 1e-3 relative, plus 1e-6 of the pattern's largest |F|² for the
+// lines that vanish or nearly vanish. That floor matters where a file
+// writes thirds as 0.33333: gemmi sums every image of a special-position
+// atom with reduced occupancy, crystal.Atoms keeps one copy, and the
+// copies lie 1e-5 of an edge apart, which moves |F|² of very weak lines by
+// more than 1e-3 of themselves (largest relative difference logged).
 func TestAgainstGemmi(t *testing.T) {
 	files := referenceCIFs(t)
 	dMin := CuKalpha1A / (2 * math.Sin(60*math.Pi/180))
@@ -211,7 +215,7 @@ func TestAgainstPymatgen(t *testing.T) {
 		for j, m := range mine {
 			myTTh[j] = m.TwoThetaDeg
 		}
-		worst := 0.0
+		worst, worstPos := 0.0, 0.0
 		for j, tth := range ref.TwoTheta {
 			y := ref.Intensity[j]
 			if y < cutoff {
@@ -222,6 +226,7 @@ func TestAgainstPymatgen(t *testing.T) {
 				t.Errorf("%s: pymatgen line at 2θ = %.4f° (I = %.1f) has no line within %g°", s.Path, tth, y, posTolDeg)
 				continue
 			}
+			worstPos = math.Max(worstPos, math.Abs(mine[k].TwoThetaDeg-tth))
 			d := math.Abs(mine[k].Intensity - y)
 			if d > relTol*y+absTol {
 				t.Errorf("%s: 2θ = %.4f°: I = %.2f, pymatgen %.2f", s.Path, tth, mine[k].Intensity, y)
@@ -236,7 +241,7 @@ func TestAgainstPymatgen(t *testing.T) {
 				t.Errorf("%s: line at 2θ = %.4f° (I = %.1f) is not in pymatgen's pattern", s.Path, m.TwoThetaDeg, m.Intensity)
 			}
 		}
-		t.Logf("%s: %d lines, largest relative intensity difference of lines ≥ 5: %.3f", s.Path, len(mine), worst)
+		t.Logf("%s: %d lines; lines ≥ 5: largest 2θ difference %.1e°, largest relative intensity difference %.3f", s.Path, len(mine), worstPos, worst)
 	}
 	if compared == 0 {
 		t.Fatal("no file compared with pymatgen")
