@@ -6,6 +6,7 @@ import (
 	"encoding/binary"
 	"fmt"
 	"math"
+	"os"
 	"path/filepath"
 	"reflect"
 	"strings"
@@ -18,7 +19,7 @@ import (
 )
 
 // migrationsUpTo returns the real migration files numbered up to last.
-func migrationsUpTo(t *testing.T, last int) fstest.MapFS {
+func migrationsUpTo(t testing.TB, last int) fstest.MapFS {
 	t.Helper()
 	out := fstest.MapFS{}
 	names, err := migrations.FS.ReadDir(".")
@@ -337,5 +338,82 @@ func TestMigrationLeavingDanglingReferencesIsRolledBack(t *testing.T) {
 	defer s.Close()
 	if have, _, _ := s.SchemaVersion(ctx); have != 3 {
 		t.Fatalf("version %d after the real migration; want 3", have)
+	}
+}
+
+// BenchmarkMigrate003 times migration 003 on a notebook at version 2
+// holding the fixture above plus 10,000 further indexings of its scan,
+// each with one peak, one phase and one assignment.
+func BenchmarkMigrate003(b *testing.B) {
+	ctx := context.Background()
+	dir := b.TempDir()
+	src := filepath.Join(dir, "v2.db")
+	s, err := store.InitWith(ctx, src, store.Options{Now: newClock().Now}, migrationsUpTo(b, 2))
+	if err != nil {
+		b.Fatal(err)
+	}
+	if err := s.CreateMelt(ctx, "Ines Marlow", newMelt("QX-0001")); err != nil {
+		b.Fatal(err)
+	}
+	if _, err := s.ProposeOutcome(ctx, "meltbook 0.2", "QX-0001", meltbook.Outcome{Kind: meltbook.Icosahedral, Lattice: "F"}); err != nil {
+		b.Fatal(err)
+	}
+	s.Close()
+	db, err := sql.Open("sqlite", "file:"+filepath.ToSlash(src)+"?_pragma=foreign_keys(1)")
+	if err != nil {
+		b.Fatal(err)
+	}
+	if _, err := db.Exec(version2Rows, digest("old.xy"), littleEndianDoubles(20, 30, 40), littleEndianDoubles(100, 180, 95)); err != nil {
+		b.Fatal(err)
+	}
+	const n = 10000
+	for k, q := range []string{
+		`WITH RECURSIVE k(i) AS (SELECT 2 UNION ALL SELECT i + 1 FROM k WHERE i < 1 + ?)
+		INSERT INTO indexing (id, scan_id, version, indexed_at, indexed_by, requested_by, reason, anode, kalpha1_angstrom,
+			kalpha2_angstrom, kalpha2_ratio, kalpha2_state, radiation_text, tolerance_deg, max_chance)
+		SELECT 1000 + i, 11, i, '2026-05-04T09:00:01.000000000Z', 'meltbook 0.2', 'Ines Marlow', 'again', 'Cu', 1.5405929,
+			1.5444274, 0.5, 'doublet', 'Cu', 0.1, 0.01 FROM k`,
+		`INSERT INTO peak (id, indexing_id, position, two_theta_deg, d_angstrom, height, area, fwhm_deg, eta, significance, found)
+		SELECT id, id, 0, 42.9, 2.106, 900, 120, 0.12, 0.3, 60, 'automatic' FROM indexing WHERE id > 1000`,
+		`INSERT INTO indexed_phase (id, indexing_id, position, kind, lattice, constant_angstrom, constant_su_angstrom,
+			zero_shift_deg, zero_shift_su_deg, figure_of_merit, chance, chance_basis, explained_intensity, rms_residual_deg)
+		SELECT id, id, 0, 'cubic', 'F', 4.0495, 0.0003, 0, 0.002, 9.5, 0.001, 'uniform lists', 1, 0.003 FROM indexing WHERE id > 1000`,
+		`INSERT INTO peak_assignment (phase_id, peak_id, calculated_two_theta_deg, residual_deg, d_angstrom, label)
+		SELECT id, id, 42.9, 0, 2.106, '200' FROM indexing WHERE id > 1000`,
+	} {
+		var args []any
+		if k == 0 {
+			args = []any{n}
+		}
+		if _, err := db.Exec(q, args...); err != nil {
+			b.Fatal(err)
+		}
+	}
+	var phases int
+	db.QueryRow(`SELECT COUNT(*) FROM indexed_phase`).Scan(&phases)
+	db.Close()
+	if phases != n+2 {
+		b.Fatalf("%d phases in the benchmark notebook; want %d", phases, n+2)
+	}
+	data, err := os.ReadFile(src)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		b.StopTimer()
+		p := filepath.Join(dir, fmt.Sprintf("copy%d.db", i))
+		if err := os.WriteFile(p, data, 0o644); err != nil {
+			b.Fatal(err)
+		}
+		b.StartTimer()
+		s, err := store.Open(ctx, p, store.Options{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.StopTimer()
+		s.Close()
+		os.Remove(p)
+		b.StartTimer()
 	}
 }
