@@ -28,6 +28,11 @@ type Phase struct {
 	// ExplainedIntensity (0..1) of the intensity.
 	IndexedPeaks, SpecimenPeaks int
 	ExplainedIntensity          float64
+	// Name is the library phase the search-match named ("θ-Al2Cu"), empty
+	// otherwise; Title describes a crystalline phase of any system in
+	// short ("tetragonal I4/mcm, a = 6.07 Å, c = 4.88 Å") for one that has
+	// no name.
+	Name, Title string
 }
 
 // Halo is a diffuse maximum seen in a pattern without crystalline peaks
@@ -226,7 +231,13 @@ func candidate(p Phase) meltbook.Outcome {
 	case meltbook.ModelApproximant:
 		return meltbook.Outcome{Kind: meltbook.Approximant, Lattice: p.Lattice, Order: p.Order}
 	}
-	name := Name(p.Lattice, p.ConstantA)
+	name := p.Name
+	if name == "" && (p.Kind == meltbook.ModelCubic || p.Kind == "") {
+		name = Name(p.Lattice, p.ConstantA)
+	}
+	if name == "" && p.Title != "" {
+		name = p.Title
+	}
 	if name == "" {
 		name = fmt.Sprintf("cubic %s, a = %s Å", p.Lattice, meltbook.WithUncertainty(p.ConstantA, p.ConstantSUA))
 	}

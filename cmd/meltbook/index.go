@@ -11,6 +11,7 @@ import (
 
 	"meltbook"
 	"meltbook/analysis/indexing"
+	"meltbook/analysis/phaselib"
 	"meltbook/analysis/scanfile"
 )
 
@@ -22,13 +23,18 @@ func newIndexCommand(a *app) *cobra.Command {
 		peakList  bool
 		asJSON    bool
 		tolerance float64
+		dirs      []string
+		comp      string
 	)
 	cmd := &cobra.Command{
 		Use:   "index FILE",
-		Short: "Index a scan or peak list as icosahedral, cubic approximant or cubic phases",
+		Short: "Index a scan or peak list: icosahedral, approximant, cubic and library phases",
 		Long: `Finds the peaks of a scan (or reads a peak list of 2θ and relative intensity
 with --peaks) and tries icosahedral P, F and I models, cubic P, I and F lattices
-and cubic approximants of order 1/1 and 2/1. Each phase is reported with its
+and cubic approximants of order 1/1 and 2/1, and matches the phases of the
+phase library (see 'meltbook phases'; with --composition only those whose
+elements the alloy holds) by line positions and intensities, each with its
+cell free within ±2 % for solid solution. Each phase is reported with its
 lattice constant and uncertainty, zero shift, figure of merit and the chance
 that random peaks of the same count and range fit as well; phases no better
 than chance are not reported. Mixtures are taken one phase at a time, the one
@@ -72,7 +78,19 @@ explaining the most intensity first; peaks no phase takes are listed.`,
 					list = append(list, indexing.Peak{TwoThetaDeg: p.TwoThetaDeg, Intensity: p.Area})
 				}
 			}
-			result, err := indexing.Index(list, lambda, indexing.Options{ToleranceDeg: tolerance})
+			lib, err := a.phaseLibrary(cmd.Context(), dirs)
+			if err != nil {
+				return err
+			}
+			els, err := compositionElements(comp)
+			if err != nil {
+				return err
+			}
+			known, err := phaselib.KnownPhases(lib.ForElements(els), lambda)
+			if err != nil {
+				return invalid(err)
+			}
+			result, err := indexing.Index(list, lambda, indexing.Options{ToleranceDeg: tolerance, Library: known})
 			if err != nil {
 				return err
 			}
@@ -86,6 +104,8 @@ explaining the most intensity first; peaks no phase takes are listed.`,
 	f := cmd.Flags()
 	f.BoolVar(&peakList, "peaks", false, "FILE is a peak list (2θ and relative intensity), not a scan")
 	f.BoolVar(&asJSON, "json", false, "print JSON")
+	f.StringSliceVar(&dirs, "library", nil, "folder of CIF files whose phases are tried beside the built-in library (repeatable)")
+	f.StringVar(&comp, "composition", "", "try only the library phases whose elements this composition holds, e.g. Al62Cu25.5Fe12.5 (default: every phase)")
 	f.Float64Var(&tolerance, "tolerance", 0, "largest |2θobs − 2θcalc| in degrees for a peak to count as indexed (default 0.10)")
 	return cmd
 }

@@ -45,6 +45,7 @@ type scanAddFlags struct {
 	byName    bool
 	tolerance float64
 	notes     string
+	library   []string
 }
 
 func newScanAddCommand(a *app) *cobra.Command {
@@ -69,7 +70,11 @@ refused (its file, line and column are named) or whose sample is unknown
 leaves the others stored. A file already held by its sample (same SHA-256)
 is reported and not stored again. The radiation is --anode or --wavelength,
 else what the file states, else Cu Kα1/Kα2, recorded as assumed; correct it
-later with scan reindex --anode/--wavelength.`,
+later with scan reindex --anode/--wavelength.
+
+Indexing tries the phases of the phase library whose elements the sample's
+nominal composition holds: the built-in phases, the folder the notebook's
+phase-library setting names and --library folders (see 'meltbook phases').`,
 		Args: func(cmd *cobra.Command, args []string) error {
 			if fl.mapFile == "" && !fl.byName && len(args) < 2 {
 				return &usageError{fmt.Errorf("scan add takes SAMPLE FILE..., or --map FILE or --by-name with files or folders; see meltbook scan add --help")}
@@ -89,6 +94,7 @@ later with scan reindex --anode/--wavelength.`,
 	f.BoolVar(&fl.byName, "by-name", false, "take each file's sample code from its name (see above)")
 	f.Float64Var(&fl.tolerance, "tolerance", 0, "indexing tolerance, |2θobs − 2θcalc| in degrees (default 0.10)")
 	f.StringVar(&fl.notes, "notes", "", "notes kept with every scan added")
+	f.StringSliceVar(&fl.library, "library", nil, "folder of CIF files whose phases indexing tries beside the built-in library and the notebook's phase-library folder (repeatable)")
 	return cmd
 }
 
@@ -193,7 +199,7 @@ func (a *app) scanAdd(ctx context.Context, fl scanAddFlags, args []string) error
 	if err != nil {
 		return err
 	}
-	opt := intake.Options{Radiation: rad, Standard: fl.radiation.standard, ToleranceDeg: fl.tolerance, Notes: fl.notes}
+	opt := intake.Options{Radiation: rad, Standard: fl.radiation.standard, ToleranceDeg: fl.tolerance, Notes: fl.notes, LibraryDirs: fl.library}
 	if fl.tolerance < 0 {
 		return invalidFlag("--tolerance", "the tolerance must be positive")
 	}
@@ -401,6 +407,7 @@ func newScanReindexCommand(a *app) *cobra.Command {
 		r         radiationFlags
 		reason    string
 		tolerance float64
+		library   []string
 	)
 	cmd := &cobra.Command{
 		Use:   "reindex ID --reason TEXT",
@@ -433,7 +440,7 @@ decision are rejected as superseded; confirmed or rejected ones stand.`,
 			a.loadCalibration()
 			defer a.saveCalibration()
 			res, err := intake.Reindex(ctx, st, a.operator(), id, reason,
-				intake.Options{Radiation: rad, Standard: r.standard, ToleranceDeg: tolerance})
+				intake.Options{Radiation: rad, Standard: r.standard, ToleranceDeg: tolerance, LibraryDirs: library})
 			if err != nil {
 				return err
 			}
@@ -443,5 +450,6 @@ decision are rejected as superseded; confirmed or rejected ones stand.`,
 	addRadiationFlags(cmd, &r)
 	cmd.Flags().StringVar(&reason, "reason", "", "why the scan is indexed again (required)")
 	cmd.Flags().Float64Var(&tolerance, "tolerance", 0, "indexing tolerance, |2θobs − 2θcalc| in degrees (default 0.10)")
+	cmd.Flags().StringSliceVar(&library, "library", nil, "folder of CIF files added to the phase library (repeatable)")
 	return cmd
 }

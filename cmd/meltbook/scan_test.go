@@ -94,8 +94,8 @@ func TestScanAddMany(t *testing.T) {
 	// One line per file, in name order; notes.md is not a scan file.
 	want := []string{
 		"refused  QX-0001_bad.xy:3:7: ",
-		"added    " + filepath.Join(dir, "QX-0001_run1.xy") + ": scan 1 of QX-0001; cubic F",
-		"added    " + filepath.Join(dir, "QX-0002_run1.xy") + ": scan 2 of QX-0002; cubic F",
+		"added    " + filepath.Join(dir, "QX-0001_run1.xy") + ": scan 1 of QX-0001; Al, cubic Fm-3m",
+		"added    " + filepath.Join(dir, "QX-0002_run1.xy") + ": scan 2 of QX-0002; Al, cubic Fm-3m",
 		"refused  " + filepath.Join(dir, "QX-0404_run1.xy") + ": sample: no sample QX-0404 in the notebook",
 		"",
 		"4 files: 2 added, 0 already held, 2 refused",

@@ -27,7 +27,8 @@ type analysis struct {
 const haloDominance = 10
 
 // analyse runs the peak search and the indexing on a scan.
-func analyse(sc *meltbook.Scan, rad radiation.Radiation, std *peaks.Standard, toleranceDeg float64) (*analysis, error) {
+// lib holds the phases of known structure offered to the search-match.
+func analyse(sc *meltbook.Scan, rad radiation.Radiation, std *peaks.Standard, toleranceDeg float64, lib []indexing.KnownPhase) (*analysis, error) {
 	sf := scanfile.Scan{TwoThetaDeg: sc.TwoThetaDeg, Counts: sc.Counts, Errors: sc.CountErrors}
 	popt := peaks.Options{Standard: std}
 	found, err := peaks.Find(sf, rad, popt)
@@ -69,7 +70,7 @@ func analyse(sc *meltbook.Scan, rad radiation.Radiation, std *peaks.Standard, to
 			listPeak = append(listPeak, len(x.Peaks)-1)
 		}
 	}
-	iopt := indexing.Options{ToleranceDeg: toleranceDeg}
+	iopt := indexing.Options{ToleranceDeg: toleranceDeg, Library: lib}
 	// The settings recorded are those Index uses: its defaults, 0.10° and
 	// a chance of 0.01, unless a tolerance is given.
 	x.ToleranceDeg, x.MaxChance = 0.10, 0.01

@@ -52,6 +52,10 @@ type Options struct {
 	NeighbourDistance float64
 	// Notes are kept with the scan (Add only).
 	Notes string
+	// LibraryDirs are folders of CIF files whose phases the search-match
+	// tries beside the built-in phase library and the folder the notebook's
+	// phase-library setting names.
+	LibraryDirs []string
 }
 
 // Result says what Add or Reindex did.
@@ -148,7 +152,11 @@ func Add(ctx context.Context, st *store.Store, who string, f File, opt Options) 
 	if std != nil {
 		sc.InternalStandard = std.Name
 	}
-	an, err := analyse(&sc, rad, std, opt.ToleranceDeg)
+	lib, err := knownPhases(ctx, st, ev, rad, opt)
+	if err != nil {
+		return nil, err
+	}
+	an, err := analyse(&sc, rad, std, opt.ToleranceDeg, lib)
 	if err != nil {
 		return nil, err
 	}
@@ -209,7 +217,11 @@ func Reindex(ctx context.Context, st *store.Store, who string, scanID int64, rea
 	if std != nil {
 		sc.InternalStandard = std.Name
 	}
-	an, err := analyse(&sc, rad, std, opt.ToleranceDeg)
+	lib, err := knownPhases(ctx, st, ev, rad, opt)
+	if err != nil {
+		return nil, err
+	}
+	an, err := analyse(&sc, rad, std, opt.ToleranceDeg, lib)
 	if err != nil {
 		return nil, err
 	}

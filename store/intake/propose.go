@@ -72,6 +72,7 @@ func propose(ctx context.Context, st *store.Store, ev *store.SampleEvidence, sc 
 			Kind: ph.Kind, Lattice: ph.Lattice, Order: ph.Order, ApproximantOf: ph.ApproximantOf,
 			ConstantA: ph.ConstantA, ConstantSUA: ph.ConstantSUA, Chance: ph.Chance,
 			IndexedPeaks: len(ph.Assignments), SpecimenPeaks: specimen, ExplainedIntensity: ph.ExplainedIntensity,
+			Name: ph.Phase, Title: ph.Title(),
 		}
 		v := verdict.Weigh(in)
 		res.Weighed = append(res.Weighed, Weighing{Verdict: v})

@@ -1,0 +1,115 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func TestPhasesList(t *testing.T) {
+	t.Setenv("MELTBOOK_NOTEBOOK", filepath.Join(t.TempDir(), "none.db"))
+	out, errOut, code := runCLI(t, "", "phases")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	golden(t, "phases.txt", out)
+	out, _, code = runCLI(t, "", "phases", "--composition", "Al62Cu25.5Fe12.5", "--json")
+	if code != 0 {
+		t.Fatal(out)
+	}
+	var got []phaseSummary
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, p := range got {
+		names = append(names, p.Name)
+	}
+	// The built-in phases whose elements Al, Cu and Fe cover.
+	if strings.Join(names, " ") != "Al β-Al(Cu,Fe) θ-Al2Cu" {
+		t.Errorf("phases of Al-Cu-Fe: %v", names)
+	}
+}
+
+func TestPhasesShow(t *testing.T) {
+	t.Setenv("MELTBOOK_NOTEBOOK", filepath.Join(t.TempDir(), "none.db"))
+	out, errOut, code := runCLI(t, "", "phases", "show", "theta-Al2Cu", "--lines", "6", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		WavelengthA float64     `json:"wavelength_angstrom"`
+		Lines       []shownLine `json:"lines"`
+	}
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Lines) != 6 {
+		t.Fatalf("%d lines, want 6", len(got.Lines))
+	}
+	// θ-Al2Cu's strongest line is (110) at d = a/√2 = 4.290 Å, 2θ = 20.69°
+	// at Cu Kα1 (a = 6.067 Å from memory; the line's rank as in pymatgen's
+	// pattern of the same structure, see analysis/phaselib's tests).
+	first := got.Lines[0]
+	if first.HKL != [3]int{1, 1, 0} || first.Relative != 100 || first.DA < 4.289 || first.DA > 4.291 {
+		t.Errorf("first line %+v", first)
+	}
+	_, errOut, code = runCLI(t, "", "phases", "show", "omega-Al7Cu2Fe")
+	if code == 0 || !strings.Contains(errOut, "theta-Al2Cu") {
+		t.Errorf("unknown phase: exit %d, %q; want an error listing the library", code, errOut)
+	}
+}
+
+func TestSettingPhaseLibrary(t *testing.T) {
+	nb := filepath.Join(t.TempDir(), "nb.db")
+	t.Setenv("MELTBOOK_NOTEBOOK", nb)
+	if _, e, code := runCLI(t, "", "init"); code != 0 {
+		t.Fatal(e)
+	}
+	dir := t.TempDir()
+	cif := `# Provenance: a test file.
+data_x
+_chemical_name_common 'Cu'
+_chemical_formula_sum 'Cu'
+_cell_length_a 3.6149
+_cell_length_b 3.6149
+_cell_length_c 3.6149
+_cell_angle_alpha 90
+_cell_angle_beta 90
+_cell_angle_gamma 90
+_space_group_name_H-M_alt 'F m -3 m'
+loop_
+_atom_site_label
+_atom_site_type_symbol
+_atom_site_fract_x
+_atom_site_fract_y
+_atom_site_fract_z
+Cu1 Cu 0 0 0
+`
+	if err := os.WriteFile(filepath.Join(dir, "cu.cif"), []byte(cif), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, e, code := runCLI(t, "", "setting", "phase-library", dir); code != 0 {
+		t.Fatal(e)
+	}
+	out, _, _ := runCLI(t, "", "phases")
+	if !strings.Contains(out, "Cu   ") || !strings.Contains(out, filepath.Join(dir, "cu.cif")) {
+		t.Errorf("phases with the notebook's folder:\n%s", out)
+	}
+	// A folder whose file does not read is refused before the setting
+	// changes.
+	bad := t.TempDir()
+	if err := os.WriteFile(filepath.Join(bad, "b.cif"), []byte(strings.Replace(cif, "_cell_length_a 3.6149", "_cell_length_a 3,6149", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, errOut, code := runCLI(t, "", "setting", "phase-library", bad)
+	if code == 0 || !strings.Contains(errOut, "b.cif:5") {
+		t.Errorf("bad folder: exit %d, %q", code, errOut)
+	}
+	out, _, _ = runCLI(t, "", "setting", "phase-library")
+	if strings.TrimSpace(out) != dir {
+		t.Errorf("setting after a refused change = %q, want %q", out, dir)
+	}
+}
