@@ -5,6 +5,7 @@ import (
 	"context"
 	"fmt"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"meltbook"
@@ -34,6 +35,19 @@ func FuzzImport(f *testing.F) {
 		f.Fatal(err)
 	}
 	f.Add(export(f, withScan))
+	// Version 2 by hand, and version 3 with every field of a phase call.
+	f.Add([]byte(version2Document))
+	f.Add([]byte(strings.Replace(version2Document, `"kind": "cubic"`, `"kind": "tetragonal"`, 1)))
+	for _, x := range []meltbook.Indexing{thetaAl2CuIndexing(), hexagonalIndexing(), icosahedralIndexing()} {
+		calls := MustOpen(f)
+		if err := calls.CreateMelt(ctx, "Ines Marlow", newMelt("QX-0001")); err != nil {
+			f.Fatal(err)
+		}
+		if _, err := calls.AddScan(ctx, "Ines Marlow", store.NewScan{Scan: newScan("QX-0001", "x.xy"), Indexing: x}); err != nil {
+			f.Fatal(err)
+		}
+		f.Add(export(f, calls))
+	}
 	dir := f.TempDir()
 	notebooks := 0
 	fresh := func(tb testing.TB) *store.Store {

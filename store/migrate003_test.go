@@ -1,6 +1,7 @@
 package store_test
 
 import (
+	"bytes"
 	"context"
 	"database/sql"
 	"encoding/binary"
@@ -415,5 +416,34 @@ func BenchmarkMigrate003(b *testing.B) {
 		s.Close()
 		os.Remove(p)
 		b.StartTimer()
+	}
+}
+
+// A notebook at version 3 with a tetragonal call, opened by a build that
+// knows only 001 and 002, is refused and left as it was.
+func TestVersion3NotebookRefusedByVersion2Build(t *testing.T) {
+	ctx := context.Background()
+	src, _ := threeCallNotebook(t)
+	p := filepath.Join(t.TempDir(), "notebook.db")
+	s, err := store.Init(ctx, p, store.Options{Valences: testValences})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Import(ctx, "Kai Ostrow", bytes.NewReader(export(t, src))); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Close(); err != nil {
+		t.Fatal(err)
+	}
+	before := notebookFiles(t, p)
+	_, err = store.OpenWith(ctx, p, store.Options{Valences: testValences}, migrationsUpTo(t, 2))
+	wantKind(t, err, meltbook.Conflict, p)
+	if !strings.Contains(err.Error(), "schema version 3; this one knows up to 2") {
+		t.Errorf("message %q does not give both versions", err)
+	}
+	for i, b := range notebookFiles(t, p) {
+		if !reflect.DeepEqual(before[i], b) {
+			t.Fatalf("file %d of the notebook changed on a refused open", i)
+		}
 	}
 }
