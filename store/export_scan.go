@@ -398,7 +398,8 @@ func checkDocIndexing(x *DocIndexing, version, docVersion int, outcomes map[int6
 				return at(aPlace, meltbook.Errorf(invalid, "peak_id", "%d is not a peak of this indexing or is assigned twice", id))
 			}
 			assigned[id] = true
-			if err := checkPredictedIntensity(ph.Assignments[a].PredictedIntensity); err != nil {
+			da := &ph.Assignments[a]
+			if err := checkAssignment(da.CalculatedTwoThetaDeg, da.ResidualDeg, da.DAngstrom, da.PredictedIntensity); err != nil {
 				return at(aPlace, err)
 			}
 		}

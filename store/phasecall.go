@@ -32,7 +32,8 @@ func oneOf(v string, set []string) bool {
 // ones the notebook holds, every number is finite, the chance is a
 // probability, cell constants and angles are either not given (0, with no
 // uncertainty) or positive (angles below 180°) with an uncertainty ≥ 0, an
-// Rwp is ≥ 0 and so is a line's predicted intensity. The assignments
+// Rwp is ≥ 0, and each assignment's numbers are finite with a predicted
+// intensity ≥ 0. The assignments
 // checked are the phase's own (AddScan); a document's are checked apart.
 func checkPhase(ph *meltbook.IndexedPhase) error {
 	if !oneOf(ph.Kind, phaseKinds) {
@@ -80,11 +81,26 @@ func checkPhase(ph *meltbook.IndexedPhase) error {
 		return meltbook.Errorf(invalid, "whole_pattern_rwp", "%g is not an Rwp (finite, ≥ 0)", *r)
 	}
 	for j := range ph.Assignments {
-		if err := checkPredictedIntensity(ph.Assignments[j].PredictedIntensity); err != nil {
+		a := &ph.Assignments[j]
+		if err := checkAssignment(a.CalculatedTwoThetaDeg, a.ResidualDeg, a.DAngstrom, a.PredictedIntensity); err != nil {
 			return at(fmt.Sprintf("assignments[%d]", j), err)
 		}
 	}
 	return nil
+}
+
+// checkAssignment checks an assignment's numbers: finite, and a predicted
+// intensity, when given, ≥ 0.
+func checkAssignment(calculatedDeg, residualDeg, dA float64, predicted *float64) error {
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"calculated_two_theta_deg", calculatedDeg}, {"residual_deg", residualDeg}, {"d_angstrom", dA}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return meltbook.Errorf(invalid, f.name, "%g is not a finite number", f.v)
+		}
+	}
+	return checkPredictedIntensity(predicted)
 }
 
 func checkPredictedIntensity(v *float64) error {

@@ -242,6 +242,7 @@ func TestPhaseCallRefusedBeforeAnythingIsWritten(t *testing.T) {
 			ph.Assignments[2].PredictedIntensity = &v
 		}, "phases[0].assignments[2].predicted_intensity"},
 		{"chance above 1", func(ph *meltbook.IndexedPhase) { ph.Chance = 1.5 }, "phases[0].chance"},
+		{"calculated 2θ not a number", func(ph *meltbook.IndexedPhase) { ph.Assignments[0].CalculatedTwoThetaDeg = nan }, "phases[0].assignments[0].calculated_two_theta_deg"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			x := thetaAl2CuIndexing()
