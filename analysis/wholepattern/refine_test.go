@@ -158,12 +158,14 @@ func checkProfile(t *testing.T, p wholepattern.Profile) {
 		fg := math.Sqrt(synthGU*tn*tn + synthGV*tn + synthGW)
 		fl := synthLFrac * fg
 		fv := 0.5346*fl + math.Sqrt(0.2166*fl*fl+fg*fg)
+		t.Logf("FWHM at %g°: %.5f°, Voigt %.5f°", tt, p.FWHMDeg(tt), fv)
 		if got := p.FWHMDeg(tt); math.Abs(got/fv-1) > 0.03 {
 			t.Errorf("FWHM at %g° = %.5f°, Voigt FWHM %.5f°", tt, got, fv)
 		}
 	}
 	q := synthLFrac / (0.5346*synthLFrac + math.Sqrt(0.2166*synthLFrac*synthLFrac+1))
 	eta := 1.36603*q - 0.47719*q*q + 0.11116*q*q*q
+	t.Logf("η %.3f ± %.3f, Thompson–Cox–Hastings %.3f", p.Eta, p.EtaSU, eta)
 	if math.Abs(p.Eta-eta) > 0.05 {
 		t.Errorf("η = %.3f, Thompson–Cox–Hastings η = %.3f", p.Eta, eta)
 	}
@@ -243,5 +245,37 @@ func TestPhaseWithoutIntensity(t *testing.T) {
 		if !hasWarning(res.Warnings, name) {
 			t.Errorf("no warning names phase %s: %q", name, res.Warnings)
 		}
+	}
+}
+
+// TestStartCellOff starts the cells up to 0.5 % off, in both directions and
+// unequally for a and c (the task's robustness requirement), and expects
+// the same tolerances as from the 0.3 % start.
+func TestStartCellOff(t *testing.T) {
+	d := loadSynth(t)
+	for _, c := range []struct {
+		name     string
+		fa, fc   float64 // start a, c as fractions of the truth
+		zeroDeg  float64 // start zero shift
+		pattern  string
+		phaseKey string
+	}{
+		{"Al −0.5 %", 0.995, 0.995, synthZeroDeg + 0.05, "al", "al"},
+		{"Al +0.5 %", 1.005, 1.005, synthZeroDeg - 0.05, "al", "al"},
+		{"Mg a +0.5 % c −0.4 %", 1.005, 0.996, startZeroDeg, "mg", "mg"},
+		{"Al2Cu a −0.4 % c +0.5 %", 0.996, 1.005, startZeroDeg, "al2cu", "al2cu"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			tc := truthCell[c.phaseKey]
+			start := tc.cell
+			start.A, start.B, start.C = start.A*c.fa, start.B*c.fa, start.C*c.fc
+			ph := wholepattern.Phase{Name: c.phaseKey, System: tc.sys, Cell: start, Reflections: d.reflections(c.phaseKey)}
+			res, err := wholepattern.Refine(d.X, d.Patterns[c.pattern], cuDoublet(t), []wholepattern.Phase{ph}, wholepattern.Options{StartZeroShiftDeg: c.zeroDeg})
+			if err != nil {
+				t.Fatal(err)
+			}
+			checkFit(t, res)
+			checkCell(t, res.Cells[0], tc.cell)
+		})
 	}
 }
