@@ -143,6 +143,13 @@ func newEngine(x, y []float64, rad radiation.Radiation, phases []Phase, kinds []
 	if n < 20 || n <= 2*e.np {
 		return nil, meltbook.Errorf(meltbook.Invalid, "options.range", "%d points in %g° to %g°: too few for %d parameters (need at least %d)", n, opt.MinTwoThetaDeg, opt.MaxTwoThetaDeg, e.np, max(20, 2*e.np+1))
 	}
+	positive := false
+	for _, v := range e.y {
+		positive = positive || v > 0
+	}
+	if !positive {
+		return nil, meltbook.Errorf(meltbook.Invalid, "counts", "no positive count between %g° and %g°: nothing to fit", opt.MinTwoThetaDeg, opt.MaxTwoThetaDeg)
+	}
 	e.w, e.sw = make([]float64, n), make([]float64, n)
 	for i, v := range e.y {
 		e.w[i] = 1 / math.Max(v, 1)

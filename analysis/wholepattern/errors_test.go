@@ -57,6 +57,9 @@ func TestRefineRejects(t *testing.T) {
 		{"infinite count", "counts[3]", with(func(x, y []float64, _ *wholepattern.Phase, _ *radiation.Radiation, _ *wholepattern.Options) {
 			y[3] = math.Inf(1)
 		})},
+		{"no positive count", "counts", with(func(x, y []float64, _ *wholepattern.Phase, _ *radiation.Radiation, _ *wholepattern.Options) {
+			clear(y)
+		})},
 		{"no phases", "phases", func() ([]float64, []float64, []wholepattern.Phase, radiation.Radiation, wholepattern.Options) {
 			return x, y, nil, rad, wholepattern.Options{}
 		}},
