@@ -65,13 +65,13 @@ type line struct {
 }
 
 type engine struct {
-	x, y, w, sw []float64
-	lam         [2]float64
-	ratio       float64
-	doublet     bool
-	phases      []*phaseState
-	nbg         int
-	basis       []float64 // n × nbg Chebyshev values
+	x, y, w []float64
+	lam     [2]float64
+	ratio   float64
+	doublet bool
+	phases  []*phaseState
+	nbg     int
+	basis   []float64 // n × nbg Chebyshev values
 
 	np                         int
 	iZero, iU, iV, iW, iEta    int
@@ -150,10 +150,9 @@ func newEngine(x, y []float64, rad radiation.Radiation, phases []Phase, kinds []
 	if !positive {
 		return nil, meltbook.Errorf(meltbook.Invalid, "counts", "no positive count between %g° and %g°: nothing to fit", opt.MinTwoThetaDeg, opt.MaxTwoThetaDeg)
 	}
-	e.w, e.sw = make([]float64, n), make([]float64, n)
+	e.w = make([]float64, n)
 	for i, v := range e.y {
 		e.w[i] = 1 / math.Max(v, 1)
-		e.sw[i] = math.Sqrt(e.w[i])
 	}
 	e.basis = make([]float64, n*e.nbg)
 	lo, hi := e.x[0], e.x[n-1]

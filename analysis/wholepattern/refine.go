@@ -186,18 +186,22 @@ const (
 // and b a shifted Chebyshev polynomial. Each profile is cut off 25 FWHM
 // either side of its center.
 //
-// Each cycle first re-extracts the intensities (three passes of the Le
-// Bail formula)
+// Each cycle first re-extracts the intensities with the Le Bail formula
 //
-//	I_k ← Σ_i [I_k Ω_ik / Σ_j I_j Ω_ij] (y_obs,i − b_i) / Σ_i Ω_ik
+//	I_k ← I_k · Σ_i Ω_ik (y_obs,i / y_calc,i) / Σ_i Ω_ik
 //
-// which shares the observed net counts of each point among the reflections
-// in proportion to their calculated contributions (dividing by Σ_i Ω_ik
-// turns the sum over points into an integrated intensity and allows for
-// profiles cut by the range ends); an intensity is kept at or above 10⁻⁶
-// of the strongest so that it can recover. Then one damped least-squares
-// step (Levenberg–Marquardt on the normal equations with the Marquardt
-// diagonal scaling) moves the cell constants, Z, U, V, W, η and the
+// which shares the observed counts of each point among the reflections in
+// proportion to their calculated contributions (dividing by Σ_i Ω_ik turns
+// the sum over points into an integrated intensity and allows for profiles
+// cut by the range ends). Its fixed point sets Σ_i Ω_ik (y_obs,i −
+// y_calc,i)/y_calc,i = 0 for every k, the least-squares condition for the
+// intensities with weights 1/y_calc, so the background is not drained into
+// the peaks. The passes only re-sum stored line values and are repeated
+// until no intensity changes by more than 10⁻⁴ of itself (at most 30; 3 in
+// the widened stages below); an intensity is kept at or above 10⁻⁶ of the
+// strongest so that it can recover. Then one damped least-squares step
+// (Levenberg–Marquardt on the normal equations with the Marquardt diagonal
+// scaling) moves the cell constants, Z, U, V, W, η and the
 // background coefficients with the intensities held, minimising
 //
 //	S = Σ_i w_i (y_obs,i − y_calc,i)²,   w_i = 1/σ_i²,   σ_i² = max(y_obs,i, 1)
@@ -211,12 +215,14 @@ const (
 // line width for ε of a few 10⁻³; the least squares then see no overlap to
 // follow. So the first stages widen every line in quadrature by
 // 2 tanθ·e·(180/π) degrees, the displacement of a cell error e, for
-// e = StartErrorFraction, e/2, e/4, ... down to 4·10⁻⁴, refining only the
-// cells, Z and the background (the width and η held at their start), each
-// until χ² changes by less than 10⁻⁴ of itself; the final stage drops the
-// widening and frees everything until a cycle changes χ² by less than
-// 10⁻⁷ of itself or every parameter moves by less than 10⁻² of its
-// standard uncertainty.
+// e = StartErrorFraction, e/2, e/4, ... down to 4·10⁻⁴, with Gaussian
+// lines (η = 0, cut off at 3 FWHM, so that no long tail stands in for the
+// background), refining only the cells, Z and the background, each stage
+// for at most 10 cycles or until a cycle changes χ² by less than 10⁻³ of
+// itself. The final stage drops the widening, restores η and frees
+// everything until a cycle changes χ² by less than 10⁻⁷ of itself or, with
+// the damping back near zero, moves every parameter by less than 10⁻² of
+// its standard uncertainty.
 //
 // The agreement factors over the N fitted points, with P the refined
 // parameters plus the intensities of the reflections in range:
