@@ -12,6 +12,8 @@ import (
 	"meltbook"
 	"meltbook/analysis/indexing"
 	"meltbook/analysis/indexing/icosa"
+	"meltbook/analysis/phaselib"
+	"meltbook/analysis/powder"
 )
 
 // Scan is an invented powder diffraction scan of one sample, as the lab's
@@ -67,25 +69,29 @@ type cell struct {
 	// repeatable weight.
 	b2, simple bool
 	source     string
+	// library names the phase-library structure whose computed lines (cell
+	// and intensities) the demo draws instead; the fields above are then
+	// only a description.
+	library string
 }
 
 // crystalCells are the cells the demo draws its crystalline phases from,
 // by the phase names of the truth model. Intensities are invented except
 // where b2 or simple says otherwise; the cells are from memory, rounded.
 var crystalCells = map[string]cell{
-	"Al (fcc)":                    {a: 4.0495, centring: 'F', simple: true, source: "from memory: handbook value"},
-	"β-Al(Cu,Fe) (B2, CsCl type)": {a: 2.91, centring: 'P', b2: true, source: "from memory: about 2.90-2.92 Å"},
+	"Al (fcc)":                    {a: 4.0495, centring: 'F', simple: true, source: "from memory: handbook value", library: "Al"},
+	"β-Al(Cu,Fe) (B2, CsCl type)": {a: 2.91, centring: 'P', b2: true, source: "from memory: about 2.90-2.92 Å", library: "beta-Al(Cu,Fe)"},
 	"β-Al(Pd,Mn) (B2, CsCl type)": {a: 3.04, centring: 'P', b2: true, source: "from memory: B2 AlPd about 3.05 Å"},
 	"W-Mg3Zn3Y2 (cubic)":          {a: 6.84, centring: 'F', source: "from memory, approximate"},
-	"θ-Al2Cu (tetragonal)":        {a: 6.067, b: 6.067, c: 4.877, centring: 'I', source: "from memory"},
+	"θ-Al2Cu (tetragonal)":        {a: 6.067, b: 6.067, c: 4.877, centring: 'I', source: "from memory", library: "theta-Al2Cu"},
 	"ω-Al7Cu2Fe (tetragonal)":     {a: 6.336, b: 6.336, c: 14.87, centring: 'P', source: "from memory"},
 	"λ-Al13Fe4 (monoclinic)":      {a: 15.49, b: 8.08, c: 12.48, betaDeg: 107.7, centring: 'C', source: "from memory"},
 	"ξ′-Al-Pd-Mn (orthorhombic)":  {a: 23.5, b: 16.6, c: 12.6, centring: 'P', source: "from memory, approximate"},
-	"Al6Mn (orthorhombic)":        {a: 6.50, b: 7.55, c: 8.87, centring: 'C', source: "from memory"},
+	"Al6Mn (orthorhombic)":        {a: 6.50, b: 7.55, c: 8.87, centring: 'C', source: "from memory", library: "Al6Mn"},
 	"μ-Al4Mn (hexagonal)":         {a: 19.98, c: 24.67, hex: true, centring: 'P', source: "from memory"},
-	"MgZn2 (C14 Laves)":           {a: 5.22, c: 8.57, hex: true, centring: 'P', source: "from memory"},
+	"MgZn2 (C14 Laves)":           {a: 5.22, c: 8.57, hex: true, centring: 'P', source: "from memory", library: "MgZn2"},
 	"Mg7Zn3 (orthorhombic)":       {a: 14.08, b: 14.49, c: 14.03, centring: 'I', source: "from memory, approximate"},
-	"Zn (hcp)":                    {a: 2.665, c: 4.947, hex: true, centring: 'P', source: "from memory"},
+	"Zn (hcp)":                    {a: 2.665, c: 4.947, hex: true, centring: 'P', source: "from memory", library: "Zn"},
 	"H-Zn-Mg-Y (hexagonal)":       {a: 14.6, c: 8.7, hex: true, centring: 'P', source: "invented for the demo"},
 }
 
@@ -197,7 +203,14 @@ func samplePattern(system string, os []meltbook.Outcome) ([]powderLine, float64,
 			if !ok {
 				return nil, 0, fmt.Errorf("no cell for the crystalline phase %q", o.Name)
 			}
-			ls = crystalLines(o.Name, c, fwhm)
+			if c.library != "" {
+				var err error
+				if ls, err = libraryLines(c.library, fwhm); err != nil {
+					return nil, 0, fmt.Errorf("phase %q: %w", o.Name, err)
+				}
+			} else {
+				ls = crystalLines(o.Name, c, fwhm)
+			}
 		default:
 			return nil, 0, fmt.Errorf("no pattern for a %s phase", o.Kind)
 		}
@@ -318,6 +331,29 @@ func sumOfThreeSquares(s int) bool {
 		}
 	}
 	return false
+}
+
+// libraryLines lists the lines the phase library computes for a phase
+// from its structure (see analysis/phaselib and analysis/powder) at the
+// demo's Kα1, keeping those of at least 0.5 % of the strongest in range.
+func libraryLines(key string, fwhm float64) ([]powderLine, error) {
+	lib, err := phaselib.Builtin()
+	if err != nil {
+		return nil, err
+	}
+	p, err := lib.Find(key)
+	if err != nil {
+		return nil, err
+	}
+	lines, err := p.Lines(powder.Options{WavelengthA: scanKa1, TwoThetaMaxDeg: scanToDeg})
+	if err != nil {
+		return nil, err
+	}
+	ls := make([]powderLine, 0, len(lines))
+	for _, l := range lines {
+		ls = append(ls, powderLine{d: l.DSpacingA, intensity: l.Intensity, fwhmDeg: fwhm})
+	}
+	return normalise(ls, 0.005), nil
 }
 
 // crystalLines lists the lines of a crystalline phase: every reflection
