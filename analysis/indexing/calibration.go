@@ -8,7 +8,7 @@ import (
 // CalibrationVersion identifies the search that calibration scores come
 // from. It changes whenever the search, the scoring or the random lists
 // change, so that scores kept from an older build are not used.
-const CalibrationVersion = "indexing-null-3"
+const CalibrationVersion = "indexing-null-4"
 
 // verifyLists is how many random lists of a loaded calibration entry are
 // scored again on first use; any difference discards the entry.

@@ -18,9 +18,41 @@
 // peak), keeps proposals that put a second strong peak on a line, scores
 // them with no zero shift and refines the best six by least squares on the
 // scale and the zero shift, matching the peaks again each time. A peak is
-// matched to the allowed line within the tolerance that has the smallest
-// |G⊥| (icosahedral) or lies nearest (cubic). Mixtures are handled by taking
-// the best significant phase, removing its peaks and searching again.
+// matched to the strongest eligible line within the tolerance (icosahedral
+// and library models, see below) or to the nearest (cubic). Mixtures are
+// handled by taking the best significant phase, removing its peaks and
+// searching again.
+//
+// # Icosahedral intensities
+//
+// The icosahedral models keep every family out to |G⊥|·a6 = 0.8
+// (Options.PerpCutoff, an upper bound) and weigh each by the intensity a
+// cut-and-project model with one spherical atomic surface per node
+// predicts (icosa.Intensity):
+//
+//	I = m · ⟨g(2π|G⊥|R)²⟩ · exp(−B⊥(|G⊥|·a6)²),   g(x) = 3(sin x − x cos x)/x³
+//
+// with m the multiplicity, g the Fourier transform of a uniform ball, R the
+// radius of the ball with the volume of the lattice type's window (the
+// perpendicular-space projection of the direct 6D cell: the rhombic
+// triacontahedron of edge a6/√2 for P, V = 4.3525·a6³, R = 1.0131·a6; F and
+// I in proportion to their direct cells, R = 1.2764·a6 and 0.8041·a6),
+// ⟨⟩ an average over radii spanning the triacontahedron's in-radius to
+// its 5-fold radius (0.96–1.13·R), which fills the single sphere's zeros,
+// and B⊥ = 1 (in units of a6²) a mild phason Debye–Waller factor. Weights
+// are relative to the strongest family with |G∥|·a6 ≤ 6.7 (the range of a
+// Cu Kα scan) and capped at 1. The families are then used like the lines of
+// a library phase: a strong peak must sit on a family predicted strong, a
+// weak one may take a family of large |G⊥|, the line density counts the
+// eligible families only, and strong predicted families where no peak
+// lies cost nats. Indexed icosahedral peaks carry the predicted intensity
+// (with the Lorentz–polarisation factor, strongest family in the scan's
+// range 100). The fit of |Δq| against |G⊥| over the indexed peaks
+// (PhasonTrend) flags residuals that grow with |G⊥|, the powder signature
+// of phason strain.
+//
+// Reference: V. Elser, Acta Cryst. A42, 36 (1986); C. Janot,
+// Quasicrystals: A Primer, 2nd ed., Oxford (1994), ch. 4 (from memory).
 //
 // # Figure of merit
 //
@@ -33,8 +65,8 @@
 // the peak: pᵢ is the probability that a peak dropped at random near peak i
 // would land at least as close to an allowed line. S is in nats and grows
 // with the number of peaks indexed, with their accuracy and with the
-// sparseness of the model, so a dense model (large cubic cell, large
-// perpendicular-space cut-off) earns little for a hit.
+// sparseness of the model, so a dense model (large cubic cell, many weak
+// icosahedral families) earns little for a hit.
 //
 // A general cubic solution also pays for lines it predicts where nothing is
 // seen: of its eight lowest allowed lines from d = 1.5·d(first peak) up to
@@ -42,7 +74,9 @@
 // is kept at 0 or above. This tells P from I and F of the same constant
 // and a cell from its √2, √3 or doubled multiples, which sparse lines
 // otherwise score alike; approximant and icosahedral models carry no such
-// cost. The random lists of the chance calibration are scored the same way.
+// cost here (icosahedral models pay for missing strong families as library
+// phases do, below). The random lists of the chance calibration are scored
+// the same way.
 //
 // Among solutions whose constants differ by a factor √n (n = 2 … 16), the
 // smaller cell is taken when it indexes at least as many peaks, within a
@@ -53,7 +87,7 @@
 // # Search-match against phases of known structure
 //
 // Options.Library offers phases of known structure with their computed
-// lines. Each is a model of its own whose scale is the ratio of the cell
+// lines; the same intensity-weighted scoring serves the icosahedral models. Each is a model of its own whose scale is the ratio of the cell
 // to the published one, within ±2 % (solid solution), beside the zero
 // shift. Lines carry their predicted intensity w and peaks their observed
 // one o, both with the Lorentz–polarisation factor removed and relative to

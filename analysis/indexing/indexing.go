@@ -39,7 +39,10 @@ type Options struct {
 	// dropped and the constant refitted with no shift. Default 0.25°.
 	MaxZeroShiftDeg float64
 	// PerpCutoff is the largest |G⊥|·a6 (dimensionless) of an icosahedral
-	// reflection allowed to explain a peak. Default 0.45.
+	// reflection family kept in the models, an upper bound only: which
+	// family may explain which peak is decided by the families' predicted
+	// intensities (see the package documentation). Default and largest
+	// value 0.8, the extent of the family tables; at least 0.2.
 	PerpCutoff float64
 	// References are the icosahedral quasilattice constants that cubic
 	// approximants are sought around. Default ReferenceFamilies.
@@ -69,7 +72,7 @@ func (o Options) withDefaults() Options {
 		o.MaxZeroShiftDeg = 0.25
 	}
 	if o.PerpCutoff == 0 {
-		o.PerpCutoff = 0.45
+		o.PerpCutoff = maxFamilyPerp
 	}
 	if o.References == nil {
 		o.References = ReferenceFamilies
@@ -96,8 +99,8 @@ func (o Options) validate() error {
 		return bad("max phases", float64(o.MaxPhases), "at least 1")
 	case !(o.MaxZeroShiftDeg > 0 && o.MaxZeroShiftDeg <= 2):
 		return bad("max zero shift", o.MaxZeroShiftDeg, "in (0°, 2°]")
-	case !(o.PerpCutoff >= 0.2 && o.PerpCutoff <= 0.8):
-		return bad("perpendicular cut-off", o.PerpCutoff, "in [0.2, 0.8]")
+	case !(o.PerpCutoff >= 0.2 && o.PerpCutoff <= maxFamilyPerp):
+		return bad("perpendicular cut-off", o.PerpCutoff, fmt.Sprintf("in [0.2, %g]", maxFamilyPerp))
 	case !(o.ApproximantTolerance > 0 && o.ApproximantTolerance <= 0.1):
 		return bad("approximant tolerance", o.ApproximantTolerance, "in (0, 0.1]")
 	}
@@ -214,7 +217,10 @@ type IndexedPeak struct {
 	// HKL is the representative reflection (crystalline phases and approximants).
 	HKL *[3]int `json:"hkl,omitempty"`
 	// PredictedIntensity is the computed intensity of the line, relative to
-	// the phase's strongest line in the range of the scan's peaks (100).
+	// the phase's strongest line in the range of the scan's peaks (100):
+	// library phases from their structure, icosahedral phases from the
+	// spherical-atomic-surface model (icosa.Intensity, with the
+	// Lorentz–polarisation factor).
 	PredictedIntensity *float64 `json:"predicted_intensity,omitempty"`
 }
 

@@ -112,20 +112,45 @@ func allCubicLines(lat cubic.Lattice) []cubic.Line {
 }
 
 func icosahedralID(lat icosa.Lattice, perpCutoff float64) string {
-	return fmt.Sprintf("icosahedral-%s-%.4f", lat, perpCutoff)
+	return fmt.Sprintf("icosahedral-%s-%.4f-sphere-%.3f", lat, perpCutoff, icosa.DefaultPhasonDebyeWaller)
 }
 
+// icosahedralNormParallel is the |G∥|·a6 up to which the strongest
+// predicted family sets the scale of an icosahedral model's weights: Cu Kα
+// to 2θ = 110° at a_R = 4.5 Å. Multiplicity makes families beyond it
+// stronger still in the model, while the atomic form factor and the
+// thermal Debye–Waller factor, left out of it, weaken them in a real
+// pattern; their weights are capped at 1.
+const icosahedralNormParallel = 6.7
+
+// newIcosahedralModel builds the model of icosahedral lattice type lat: the
+// families with |G⊥|·a6 ≤ perpCutoff, each weighted by its predicted
+// intensity (icosa.Intensity: spherical atomic surface of the volume of
+// the lattice type's window, multiplicity, phason Debye–Waller factor),
+// relative to the strongest family with |G∥|·a6 ≤ icosahedralNormParallel
+// and capped at 1. Families predicted weaker than weakestLine are dropped.
+// The model is weighted: peaks are matched to lines by intensity too (see
+// match), and strong predicted lines with no peak cost (missingStrong).
 func newIcosahedralModel(lat icosa.Lattice, perpCutoff float64) *model {
 	m := &model{
-		kind:    Icosahedral,
-		lattice: lat.String(),
-		id:      icosahedralID(lat, perpCutoff),
-		windows: []window{{minQuasilatticeA * math.Sqrt2, maxQuasilatticeA * math.Sqrt2}},
+		kind:     Icosahedral,
+		lattice:  lat.String(),
+		id:       icosahedralID(lat, perpCutoff),
+		windows:  []window{{minQuasilatticeA * math.Sqrt2, maxQuasilatticeA * math.Sqrt2}},
+		weighted: true,
 	}
 	m.families = allFamilies(lat)
+	ws := make([]float64, len(m.families))
+	top := 0.0
 	for i, f := range m.families {
-		if f.Perp <= perpCutoff {
-			m.lines = append(m.lines, line{g: f.Parallel, perp: f.Perp, ref: i})
+		ws[i] = icosa.Intensity(f, lat, icosa.DefaultPhasonDebyeWaller)
+		if f.Parallel <= icosahedralNormParallel {
+			top = math.Max(top, ws[i])
+		}
+	}
+	for i, f := range m.families {
+		if w := math.Min(ws[i]/top, 1); f.Perp <= perpCutoff && w >= weakestLine {
+			m.lines = append(m.lines, line{g: f.Parallel, perp: f.Perp, w: w, ref: i})
 		}
 	}
 	m.finish()
@@ -229,9 +254,9 @@ func prepare(peaks []Peak, lambda, zero, tol float64, out []preparedPeak) []prep
 	return out
 }
 
-// match finds the line explaining a peak at scale a: among the lines within
-// tolerance, the lowest |G⊥| (icosahedral) or the nearest; for a weighted
-// model, among the lines eligible for the peak's intensity, the strongest.
+// match finds the line explaining a peak at scale a: for a weighted model
+// (icosahedral and library), among the lines within tolerance eligible for
+// the peak's intensity, the strongest; otherwise the nearest.
 // It returns the line index or -1, the residual in degrees (observed −
 // calculated) and the chance probability p of the match, whose line
 // density counts, for a weighted model, only the eligible lines.
@@ -302,9 +327,10 @@ func (m *model) score(prep, all []preparedPeak, a float64) float64 {
 // body- or face-centred cell of the same constant, and a cell from its
 // doubled or √2 multiples, where the sparse lines otherwise score alike.
 // Lines down to d = missingReach·d(first peak) count because a scan
-// normally starts well below its first peak. Approximants and icosahedral
-// models carry no penalty: their intensity gathers near the strong
-// icosahedral families and most low-angle lines are weak by nature. The
+// normally starts well below its first peak. Approximants carry no
+// penalty: their intensity gathers near the strong icosahedral families and
+// most low-angle lines are weak by nature. Weighted models (icosahedral and
+// library) pay for their missing strong lines instead (missingStrong). The
 // random lists of the chance calibration are scored the same way.
 //
 // Reference: common practice (the absence of predicted low-angle lines

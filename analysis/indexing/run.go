@@ -362,7 +362,50 @@ func buildPhase(s scored, peaks, all []Peak, cfg searchConfig, total float64) Ph
 	if m.known != nil {
 		m.finishKnown(&ph, sol, all, cfg)
 	}
+	if m.kind == Icosahedral {
+		m.finishIcosahedral(&ph, sol, all, cfg)
+	}
 	return ph
+}
+
+// finishIcosahedral fills the predicted intensity of an icosahedral
+// phase's peaks: the family's intensity (icosa.Intensity) times the
+// Lorentz–polarisation factor at its calculated angle, relative to the
+// strongest family within the range of the scan's peaks (100),
+//
+//	Iⱼ = 100 · m g(2π|G⊥|R)² exp(−B⊥|G⊥|²) LP(2θⱼ) / max over the range
+//
+// Reference: see icosa.Intensity; lorentzPolarisation.
+func (m *model) finishIcosahedral(ph *Phase, sol solution, all []Peak, cfg searchConfig) {
+	allPrep := prepare(all, cfg.lambda, sol.z, cfg.tol, nil)
+	if len(allPrep) == 0 {
+		return
+	}
+	lat := icosa.Lattice(m.lattice[0])
+	predicted := func(j int) float64 {
+		tt, ok := twoTheta(m.gs[j], sol.a, cfg.lambda)
+		if !ok {
+			return 0
+		}
+		return icosa.Intensity(m.families[m.lines[j].ref], lat, icosa.DefaultPhasonDebyeWaller) * lorentzPolarisation(tt)
+	}
+	lo, hi := allPrep[0].qLo*sol.a, allPrep[len(allPrep)-1].qHi*sol.a
+	top := 0.0
+	for j := m.firstAtLeast(lo); j < len(m.gs) && m.gs[j] <= hi; j++ {
+		top = math.Max(top, predicted(j))
+	}
+	if top <= 0 {
+		return
+	}
+	k := 0
+	for _, j := range sol.assign {
+		if j < 0 {
+			continue
+		}
+		v := 100 * predicted(j) / top
+		ph.Peaks[k].PredictedIntensity = &v
+		k++
+	}
 }
 
 // phasonTrend fits y = c + slope·x by least squares and flags a positive
