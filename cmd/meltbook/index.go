@@ -90,6 +90,11 @@ explaining the most intensity first; peaks no phase takes are listed.`,
 			if err != nil {
 				return invalid(err)
 			}
+			// The chance calibrations are kept between runs, as scan add
+			// keeps them, so that only the first run of a kind of list
+			// pays for them.
+			a.loadCalibration()
+			defer a.saveCalibration()
 			result, err := indexing.Index(list, lambda, indexing.Options{ToleranceDeg: tolerance, Library: known})
 			if err != nil {
 				return err
