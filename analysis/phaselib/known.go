@@ -8,6 +8,7 @@ import (
 	"meltbook/analysis/crystal"
 	"meltbook/analysis/indexing"
 	"meltbook/analysis/powder"
+	"meltbook/analysis/wholepattern"
 )
 
 // LinesTwoThetaMaxDeg is how far in 2θ the lines handed to the indexer
@@ -121,6 +122,27 @@ func KnownPhases(phases []Phase, lambdaA float64) ([]indexing.KnownPhase, error)
 			return nil, err
 		}
 		out = append(out, k)
+	}
+	return out, nil
+}
+
+// WholePattern returns the phase for a Le Bail refinement
+// (analysis/wholepattern): its crystal system, its cell scaled by scale
+// (the search-match's fitted cell over the published one; 1 for the
+// published cell) and its reflection families down to dMinA.
+func (p Phase) WholePattern(scale, dMinA float64) (wholepattern.Phase, error) {
+	if !(scale > 0) {
+		scale = 1
+	}
+	s := p.Structure
+	s.Cell = s.Cell.Scaled(scale)
+	refl, err := powder.Reflections(s, dMinA)
+	if err != nil {
+		return wholepattern.Phase{}, fmt.Errorf("phase %s: %w", p.Name, err)
+	}
+	out := wholepattern.Phase{Name: p.Name, System: s.Group.System, Cell: s.Cell, Reflections: make([]wholepattern.Reflection, len(refl))}
+	for i, r := range refl {
+		out.Reflections[i] = wholepattern.Reflection{HKL: r.HKL, Multiplicity: r.Multiplicity}
 	}
 	return out, nil
 }

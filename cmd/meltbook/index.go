@@ -3,8 +3,10 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
@@ -12,7 +14,9 @@ import (
 	"meltbook"
 	"meltbook/analysis/indexing"
 	"meltbook/analysis/phaselib"
+	"meltbook/analysis/radiation"
 	"meltbook/analysis/scanfile"
+	"meltbook/analysis/wholepattern"
 )
 
 func init() { addCommand(newIndexCommand) }
@@ -38,12 +42,19 @@ cell free within ±2 % for solid solution. Each phase is reported with its
 lattice constant and uncertainty, zero shift, figure of merit and the chance
 that random peaks of the same count and range fit as well; phases no better
 than chance are not reported. Mixtures are taken one phase at a time, the one
-explaining the most intensity first; peaks no phase takes are listed.`,
+explaining the most intensity first; peaks no phase takes are listed.
+
+On a scan (not a peak list), the cells of the library phases found are then
+refined against the whole profile, Le Bail style (line intensities free; cells,
+zero shift, Caglioti widths, pseudo-Voigt shape and background refined), and
+Rwp is reported beside the expected Rexp.`,
 		Args: exactArgs(1, "FILE"),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			var (
 				list   []indexing.Peak
 				lambda float64
+				scan   *scanfile.Scan
+				rad    radiation.Radiation
 			)
 			if peakList {
 				lines, err := readPeakList(args[0])
@@ -62,10 +73,11 @@ explaining the most intensity first; peaks no phase takes are listed.`,
 					list = append(list, indexing.Peak{TwoThetaDeg: p.TwoThetaDeg, Intensity: p.Intensity})
 				}
 			} else {
-				_, res, err := a.findPeaks(args[0], r)
+				sc, res, err := a.findPeaks(args[0], r)
 				if err != nil {
 					return err
 				}
+				scan, rad = &sc, res.Radiation
 				lambda = res.Radiation.Kalpha1Angstrom
 				peaks := res.Peaks
 				if res.Corrected != nil {
@@ -99,10 +111,21 @@ explaining the most intensity first; peaks no phase takes are listed.`,
 			if err != nil {
 				return err
 			}
-			if asJSON {
-				return writeJSON(a.stdout, result)
+			var whole *wholePatternCheck
+			if scan != nil {
+				whole = checkWholePattern(*scan, rad, lib, result)
 			}
-			return printIndexing(a.stdout, result)
+			if asJSON {
+				return writeJSON(a.stdout, struct {
+					indexing.Result
+					WholePattern *wholePatternCheck `json:"whole_pattern,omitempty"`
+				}{result, whole})
+			}
+			if err := printIndexing(a.stdout, result); err != nil {
+				return err
+			}
+			printWholePattern(a.stdout, whole)
+			return nil
 		},
 	}
 	addRadiationFlags(cmd, &r)
@@ -185,4 +208,92 @@ func peakLabel(p indexing.IndexedPeak) string {
 		return fmt.Sprintf("%d%d%d", p.HKL[0], p.HKL[1], p.HKL[2])
 	}
 	return ""
+}
+
+// wholePatternCheck is the Le Bail refinement of the library phases an
+// indexing found, against the whole scan.
+type wholePatternCheck struct {
+	Rwp          float64            `json:"rwp"`
+	Rexp         float64            `json:"rexp"`
+	ZeroShiftDeg float64            `json:"zero_shift_deg"`
+	Cells        []wholePatternCell `json:"cells"`
+	Warnings     []string           `json:"warnings,omitempty"`
+	Error        string             `json:"error,omitempty"`
+}
+
+type wholePatternCell struct {
+	Phase string     `json:"phase"`
+	Cell  [6]float64 `json:"cell"` // a, b, c (Å), α, β, γ (degrees)
+	SU    [6]float64 `json:"su"`
+	Free  []string   `json:"free"`
+}
+
+// checkWholePattern refines the library phases of the result against the
+// scan; nil when the result holds none. A refinement that fails is
+// reported in the check, not as the command's error: the indexing stands.
+func checkWholePattern(sc scanfile.Scan, rad radiation.Radiation, lib *phaselib.Library, res indexing.Result) *wholePatternCheck {
+	if len(sc.TwoThetaDeg) == 0 {
+		return nil
+	}
+	last := sc.TwoThetaDeg[len(sc.TwoThetaDeg)-1]
+	dMin := rad.Kalpha1Angstrom / (2 * math.Sin(math.Min(last+2, 179)*math.Pi/360))
+	var phases []wholepattern.Phase
+	for _, ph := range res.Phases {
+		if ph.Phase == "" {
+			continue
+		}
+		p, err := lib.Find(ph.Phase)
+		if err != nil {
+			continue
+		}
+		wp, err := p.WholePattern(ph.CellScale, dMin)
+		if err != nil {
+			return &wholePatternCheck{Error: err.Error()}
+		}
+		phases = append(phases, wp)
+	}
+	if len(phases) == 0 {
+		return nil
+	}
+	r, err := wholepattern.Refine(sc.TwoThetaDeg, sc.Counts, rad, phases, wholepattern.Options{})
+	if err != nil {
+		return &wholePatternCheck{Error: err.Error()}
+	}
+	out := &wholePatternCheck{Rwp: r.Rwp, Rexp: r.Rexp, ZeroShiftDeg: r.ZeroShiftDeg, Warnings: r.Warnings}
+	for _, c := range r.Cells {
+		out.Cells = append(out.Cells, wholePatternCell{Phase: c.Name,
+			Cell: [6]float64{c.Cell.A, c.Cell.B, c.Cell.C, c.Cell.Alpha, c.Cell.Beta, c.Cell.Gamma},
+			SU:   [6]float64{c.SU.A, c.SU.B, c.SU.C, c.SU.Alpha, c.SU.Beta, c.SU.Gamma}, Free: c.Free})
+	}
+	return out
+}
+
+func printWholePattern(w io.Writer, c *wholePatternCheck) {
+	if c == nil {
+		return
+	}
+	if c.Error != "" {
+		fmt.Fprintf(w, "Whole-pattern check not run: %s\n", c.Error)
+		return
+	}
+	fmt.Fprintf(w, "Whole-pattern check (Le Bail): Rwp %.2f %%, expected %.2f %%, zero shift %+.4f°\n", 100*c.Rwp, 100*c.Rexp, c.ZeroShiftDeg)
+	names := []string{"a", "b", "c", "alpha", "beta", "gamma"}
+	for _, cell := range c.Cells {
+		var parts []string
+		for _, f := range cell.Free {
+			for i, n := range names {
+				if n == f {
+					unit := " Å"
+					if i >= 3 {
+						unit = "°"
+					}
+					parts = append(parts, f+" = "+meltbook.WithUncertainty(cell.Cell[i], cell.SU[i])+unit)
+				}
+			}
+		}
+		fmt.Fprintf(w, "  %s: %s\n", cell.Phase, strings.Join(parts, ", "))
+	}
+	for _, m := range c.Warnings {
+		fmt.Fprintf(w, "  note: %s\n", m)
+	}
 }

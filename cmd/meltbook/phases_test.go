@@ -113,3 +113,44 @@ Cu1 Cu 0 0 0
 		t.Errorf("setting after a refused change = %q, want %q", out, dir)
 	}
 }
+
+// TestIndexWholePattern runs index on a synthetic fcc Al scan (Gaussian
+// doublets, a = 4.0495 Å: see fccAluminiumSpacings): the library names Al
+// and the Le Bail check refines a to within 0.0005 Å of the scan's, with
+// Rwp within 50 % of the expected Rexp (Gaussian lines fitted by
+// pseudo-Voigts; the tolerance is this test's choice).
+func TestIndexWholePattern(t *testing.T) {
+	_, ds := fccAluminiumSpacings()
+	path := syntheticScan(t, "al.xy", ds, []float64{4000, 1900, 1100, 1200, 350}, 20, 90, 0.02, 5)
+	t.Setenv("MELTBOOK_NOTEBOOK", filepath.Join(t.TempDir(), "none.db"))
+	out, errOut, code := runCLI(t, "", "index", path, "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Phases []struct {
+			Phase string `json:"phase"`
+		} `json:"phases"`
+		WholePattern *wholePatternCheck `json:"whole_pattern"`
+	}
+	if err := json.Unmarshal([]byte(out), &got); err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Phases) != 1 || got.Phases[0].Phase != "Al" {
+		t.Fatalf("phases %+v; want Al", got.Phases)
+	}
+	w := got.WholePattern
+	if w == nil || w.Error != "" || len(w.Cells) != 1 {
+		t.Fatalf("whole-pattern check %+v", w)
+	}
+	if a := w.Cells[0].Cell[0]; a < 4.0490 || a > 4.0500 {
+		t.Errorf("refined a = %.5f Å, want 4.0495 ± 0.0005", a)
+	}
+	if !(w.Rwp > 0 && w.Rwp < 1.5*w.Rexp) {
+		t.Errorf("Rwp %.4f, Rexp %.4f", w.Rwp, w.Rexp)
+	}
+	text, _, _ := runCLI(t, "", "index", path)
+	if !strings.Contains(text, "Whole-pattern check (Le Bail): Rwp") {
+		t.Errorf("text output lacks the whole-pattern check:\n%s", text)
+	}
+}
