@@ -341,27 +341,14 @@ func TestForElements(t *testing.T) {
 	}
 }
 
-const userCIF = `# Provenance: a test file.
-data_usr
-_chemical_name_common '\w-Test'
-_chemical_formula_sum 'Cu'
-_cell_length_a 3.6149
-_cell_length_b 3.6149
-_cell_length_c 3.6149
-_cell_angle_alpha 90
-_cell_angle_beta 90
-_cell_angle_gamma 90
-_space_group_name_H-M_alt 'F m -3 m'
-loop_
-_atom_site_label
-_atom_site_type_symbol
-_atom_site_fract_x
-_atom_site_fract_y
-_atom_site_fract_z
-Cu1 Cu 0 0 0
-`
+// userCIF is the user's file the tests of the library folders share,
+// renamed so that it adds a phase instead of replacing none.
+func userCIF(t *testing.T) string {
+	return strings.Replace(string(mustRead(t, "testdata/user-Cu.cif")), "'Cu'\n_chemical_formula_sum", "'\\w-Test'\n_chemical_formula_sum", 1)
+}
 
 func TestLoadUserFolder(t *testing.T) {
+	userCIF := userCIF(t)
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, "test.cif"), []byte(userCIF), 0o644); err != nil {
 		t.Fatal(err)
@@ -396,6 +383,7 @@ func TestLoadUserFolder(t *testing.T) {
 }
 
 func TestLoadErrors(t *testing.T) {
+	userCIF := userCIF(t)
 	dir := t.TempDir()
 	if _, err := phaselib.Load(filepath.Join(dir, "absent")); err == nil || !strings.Contains(err.Error(), "absent") {
 		t.Errorf("missing folder: %v", err)
@@ -406,7 +394,7 @@ func TestLoadErrors(t *testing.T) {
 	}
 	_, err := phaselib.Load(dir)
 	var fe *crystal.FileError
-	if !errors.As(err, &fe) || !strings.Contains(err.Error(), "bad.cif:6") || !strings.Contains(err.Error(), "_cell_length_b") {
+	if !errors.As(err, &fe) || !strings.Contains(err.Error(), "bad.cif:10") || !strings.Contains(err.Error(), "_cell_length_b") {
 		t.Errorf("bad file: %v; want file:line and the data name", err)
 	}
 	dup := t.TempDir()

@@ -52,7 +52,7 @@ func TestScatteringFactorFallsWithAngle(t *testing.T) {
 }
 
 // TestScatteringFactorAgainstReferences evaluates every element H to U at
-// s = 0 … 2 Å⁻¹ against two outside sources:
+// s = 0 … 2 Å⁻¹ against two reference libraries:
 //   - gemmi's IT92 coefficients evaluated by gemmi (IT92Coef.calculate_sf):
 //     the table this package embeds, so agreement to 1e-9 e shows the
 //     transcription and the formula;

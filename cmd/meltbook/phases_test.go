@@ -69,25 +69,12 @@ func TestSettingPhaseLibrary(t *testing.T) {
 		t.Fatal(e)
 	}
 	dir := t.TempDir()
-	cif := `# Provenance: a test file.
-data_x
-_chemical_name_common 'Cu'
-_chemical_formula_sum 'Cu'
-_cell_length_a 3.6149
-_cell_length_b 3.6149
-_cell_length_c 3.6149
-_cell_angle_alpha 90
-_cell_angle_beta 90
-_cell_angle_gamma 90
-_space_group_name_H-M_alt 'F m -3 m'
-loop_
-_atom_site_label
-_atom_site_type_symbol
-_atom_site_fract_x
-_atom_site_fract_y
-_atom_site_fract_z
-Cu1 Cu 0 0 0
-`
+	// The library folders' test file of analysis/phaselib.
+	cifData, err := os.ReadFile(filepath.Join("..", "..", "analysis", "phaselib", "testdata", "user-Cu.cif"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	cif := string(cifData)
 	if err := os.WriteFile(filepath.Join(dir, "cu.cif"), []byte(cif), 0o644); err != nil {
 		t.Fatal(err)
 	}
@@ -105,7 +92,7 @@ Cu1 Cu 0 0 0
 		t.Fatal(err)
 	}
 	_, errOut, code := runCLI(t, "", "setting", "phase-library", bad)
-	if code == 0 || !strings.Contains(errOut, "b.cif:5") {
+	if code == 0 || !strings.Contains(errOut, "b.cif:9") {
 		t.Errorf("bad folder: exit %d, %q", code, errOut)
 	}
 	out, _, _ = runCLI(t, "", "setting", "phase-library")

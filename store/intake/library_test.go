@@ -13,29 +13,15 @@ import (
 )
 
 // cuCIF is fcc copper, a = 3.6149 Å (from memory: handbook value for pure
-// copper at room temperature), as a user's own library file.
-const cuCIF = `# Provenance: a user's file for a test.
-data_Cu
-_chemical_name_common 'Cu'
-_chemical_formula_sum 'Cu'
-_publ_author_name 'Test, A.'
-_journal_name_full 'Test'
-_journal_year 2026
-_cell_length_a 3.6149
-_cell_length_b 3.6149
-_cell_length_c 3.6149
-_cell_angle_alpha 90
-_cell_angle_beta 90
-_cell_angle_gamma 90
-_space_group_name_H-M_alt 'F m -3 m'
-loop_
-_atom_site_label
-_atom_site_type_symbol
-_atom_site_fract_x
-_atom_site_fract_y
-_atom_site_fract_z
-Cu1 Cu 0 0 0
-`
+// copper at room temperature), as a user's own library file: the file the
+// tests of analysis/phaselib use.
+var cuCIF = func() string {
+	b, err := os.ReadFile(filepath.Join("..", "..", "analysis", "phaselib", "testdata", "user-Cu.cif"))
+	if err != nil {
+		panic(err)
+	}
+	return string(b)
+}()
 
 // fccCuLines are copper's lines 111 to 311 at a = 3.6149 Å with heights
 // roughly as a powder pattern of fcc copper has them (from memory).
